@@ -1,0 +1,21 @@
+//! ltb-atlas: elastic lateral–torsional buckling of beams and cantilevers,
+//! and the design aids built on it.
+//!
+//! Numerics (`section`, `model`, `fe`, `linalg`, `eigen`, `solve`) do no I/O
+//! and hold no global state. `case` turns a TOML case into a model; `report`
+//! turns results into text, JSON and CSV; the binary in `main.rs` is a thin
+//! CLI over them.
+
+pub mod case;
+pub mod eigen;
+pub mod fe;
+pub mod linalg;
+pub mod model;
+pub mod report;
+pub mod section;
+pub mod solve;
+
+/// The caution printed with every output a person reads.
+pub const CAUTION: &str = "Design aid only: elastic critical values for a rigid cross-section with the \
+restraints stated, not a design resistance. Check against the governing code; a qualified engineer is \
+responsible for its application; local codes and licensed practice prevail.";

@@ -1,0 +1,1 @@
+//! Text, JSON and CSV reports of a solve.
