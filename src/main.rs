@@ -1,1 +1,134 @@
-fn main() {}
+//! `ltb-atlas`: the command line. A thin layer over the library: parse the
+//! arguments, load the case, call the solver, write the report. Exit codes:
+//! 0 solved (including "no buckling"), 1 solved but not converged to the
+//! tolerance, 2 bad input or a failed solve.
+
+use anyhow::{Context, Result};
+use clap::{Parser, Subcommand};
+use ltb_atlas::case::{self, ResolvedCase};
+use ltb_atlas::report;
+use ltb_atlas::solve::{self, Settings, Status};
+use std::io::Write;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+#[derive(Parser)]
+#[command(
+    name = "ltb-atlas",
+    version,
+    about = "Elastic lateral–torsional buckling of beams and cantilevers, and design aids built on it."
+)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Solve one case: the lowest elastic critical load factor and Mcr.
+    Solve {
+        /// Case file (TOML).
+        case: PathBuf,
+        /// Print one JSON object instead of the readable report.
+        #[arg(long)]
+        json: bool,
+        /// Write the mode shape to this CSV file.
+        #[arg(long, value_name = "FILE.csv")]
+        mode: Option<PathBuf>,
+        /// Also solve for the reversed load.
+        #[arg(long)]
+        reversed: bool,
+        /// Relative error target (overrides the case's [solver] tolerance; default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+    },
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    match run(cli) {
+        Ok(code) => code,
+        Err(e) => {
+            eprintln!("error: {e:#}");
+            ExitCode::from(2)
+        }
+    }
+}
+
+fn run(cli: Cli) -> Result<ExitCode> {
+    match cli.command {
+        Command::Solve {
+            case,
+            json,
+            mode,
+            reversed,
+            tolerance,
+        } => solve_cmd(&case, json, mode.as_deref(), reversed, tolerance),
+    }
+}
+
+/// Write `bytes` to `path` through a temporary file in the same folder and
+/// a rename, so that no partial file is ever left behind.
+fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
+    let dir = path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let mut tmp = tempfile::NamedTempFile::new_in(dir)
+        .with_context(|| format!("cannot write in {}", dir.display()))?;
+    tmp.write_all(bytes)?;
+    tmp.persist(path)
+        .with_context(|| format!("cannot write {}", path.display()))?;
+    Ok(())
+}
+
+fn solve_cmd(
+    path: &Path,
+    json: bool,
+    mode: Option<&Path>,
+    reversed: bool,
+    tolerance: Option<f64>,
+) -> Result<ExitCode> {
+    let rc: ResolvedCase = case::load_case(path).map_err(anyhow::Error::new)?;
+    let tol = tolerance.or(rc.tolerance).unwrap_or(1e-4);
+    if !(tol > 0.0 && tol < 0.1) {
+        anyhow::bail!("--tolerance must lie between 0 and 0.1 (a relative error), got {tol}");
+    }
+    let settings = Settings {
+        tolerance: tol,
+        reversed,
+        ..Default::default()
+    };
+    let sol = solve::solve(&rc.member, &settings)
+        .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
+    // Prepare every output before writing any.
+    let mode_bytes = match mode {
+        Some(_) => {
+            let mut b = Vec::new();
+            report::write_mode_csv(&mut b, &rc, &sol.forward)?;
+            Some(b)
+        }
+        None => None,
+    };
+    let mut out = Vec::new();
+    if json {
+        serde_json::to_writer_pretty(&mut out, &report::to_json(&rc, &sol, tol))?;
+        out.push(b'\n');
+    } else {
+        report::write_text(&mut out, &rc, &sol, &path.display().to_string())?;
+    }
+    if let (Some(p), Some(b)) = (mode, mode_bytes) {
+        write_atomic(p, &b)?;
+    }
+    std::io::stdout().write_all(&out)?;
+    let not_conv = sol.forward.status == Status::NotConverged
+        || sol
+            .reversed
+            .as_ref()
+            .is_some_and(|r| r.status == Status::NotConverged);
+    Ok(if not_conv {
+        ExitCode::from(1)
+    } else {
+        ExitCode::SUCCESS
+    })
+}

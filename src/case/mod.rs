@@ -8,9 +8,9 @@
 mod resolve;
 mod schema;
 mod span;
-mod units;
 #[cfg(test)]
 mod tests;
+mod units;
 
 use crate::model::{Member, Scales};
 use crate::section::Properties;
@@ -51,7 +51,8 @@ pub struct PhysicalInfo {
     pub e: f64,
     /// G, MPa.
     pub g: f64,
-    /// Reference section properties.
+    /// Reference section properties. For `kind = "properties"`, values the
+    /// file does not give (`area`, the named heights) are NaN.
     pub section: Properties,
     /// A one-line description of the section (for example "I 300×150×10.7×7.1, r 15 mm").
     pub section_label: String,
@@ -107,7 +108,8 @@ pub struct CaseError {
 /// ```
 ///
 /// # References
-/// - Project domain notes (`shared/domain-notes.md`), "Dimensionless parameters".
+/// - ltb-atlas project, *Domain notes: elastic lateral–torsional buckling, conventions for this
+///   project* (`shared/domain-notes.md`), section "Dimensionless parameters".
 /// - TOML v1.0.0 specification, <https://toml.io/en/v1.0.0> (float literals `nan`, `inf`).
 pub fn parse_case(text: &str, origin: &str) -> Result<ResolvedCase, CaseError> {
     let src = span::Source { text, origin };
@@ -125,7 +127,12 @@ fn syntax_error(src: &span::Source<'_>, e: &toml::de::Error) -> CaseError {
         let line = src.text[line_start..].lines().next().unwrap_or("").trim();
         let header = line.starts_with('[');
         let name = if header {
-            line.split(']').next().unwrap_or("").trim_start_matches('[').trim().to_string()
+            line.split(']')
+                .next()
+                .unwrap_or("")
+                .trim_start_matches('[')
+                .trim()
+                .to_string()
         } else {
             src.slice(&span).trim().trim_matches('"').to_string()
         };

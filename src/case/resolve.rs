@@ -18,26 +18,34 @@
 //! ```
 //!
 //! # References
-//! - Project domain notes (`shared/domain-notes.md`), "Dimensionless parameters".
-//! - Trahair, N. S. (1993). *Flexural-Torsional Buckling of Structures*. E & FN Spon, London,
-//!   ch. 6 (the parameters K = κ and ε = ζ-type load-height parameter).
+//! - ltb-atlas project, *Domain notes: elastic lateral–torsional buckling, conventions for this
+//!   project* (`shared/domain-notes.md`), sections "Dimensionless parameters" and "Energy functional".
 
-use super::schema::{Num, Tab, did_you_mean, number, quoted_list, string_list, type_name};
+use super::schema::{Num, Tab, did_you_mean_value, number, quoted_list, string_list, type_name};
 use super::span::Source;
 use super::units::{HEIGHT_NAMES, parse_length};
 use super::{CaseError, CaseKind, LoadInfo, PhysicalInfo, ResolvedCase};
 use crate::model::{
-    Axial, ContinuousRestraint, Fixity, Load, Member, ModelError, PointSupport, Restraint, Scales, Segment, Support,
+    Axial, ContinuousRestraint, Fixity, Load, Member, ModelError, PointSupport, Restraint, Scales,
+    Segment, Support,
 };
-use crate::section::{self, Properties, Shape};
+use crate::section::{self, Properties, SectionError, Shape};
 use std::collections::HashMap;
 use std::f64::consts::PI;
 use std::ops::Range;
 use toml::de::{DeTable, DeValue};
 
 /// Top-level keys shared by both kinds of case.
-const COMMON_TOP: &[&str] =
-    &["solver", "start", "end", "support", "load", "restraint", "continuous_restraint", "segment"];
+const COMMON_TOP: &[&str] = &[
+    "solver",
+    "start",
+    "end",
+    "support",
+    "load",
+    "restraint",
+    "continuous_restraint",
+    "segment",
+];
 /// Top-level keys of a dimensionless case (before [`COMMON_TOP`]).
 const DIMLESS_TOP: &[&str] = &["kappa", "delta", "axial", "zeta_centroid", "rho"];
 /// Top-level keys of a physical case (before [`COMMON_TOP`]).
@@ -45,7 +53,14 @@ const PHYS_TOP: &[&str] = &["length", "section", "material"];
 /// Support presets.
 const PRESETS: &[&str] = &["fork", "built-in", "free"];
 /// Support degrees of freedom, in schema order.
-const DOFS: &[&str] = &["lateral", "lateral_rotation", "twist", "warping", "vertical", "in_plane_rotation"];
+const DOFS: &[&str] = &[
+    "lateral",
+    "lateral_rotation",
+    "twist",
+    "warping",
+    "vertical",
+    "in_plane_rotation",
+];
 /// Load kinds.
 const LOAD_KINDS: &[&str] = &["point", "uniform", "distributed", "end-moments"];
 /// Section kinds.
@@ -55,7 +70,16 @@ const SECTION_KINDS: &[&str] = &["i", "mono-i", "rectangle", "properties"];
 fn section_keys(kind: &str) -> &'static [&'static str] {
     match kind {
         "i" => &["kind", "h", "b", "tf", "tw", "r"],
-        "mono-i" => &["kind", "h", "b_top", "tf_top", "b_bottom", "tf_bottom", "tw", "r"],
+        "mono-i" => &[
+            "kind",
+            "h",
+            "b_top",
+            "tf_top",
+            "b_bottom",
+            "tf_bottom",
+            "tw",
+            "r",
+        ],
         "rectangle" => &["kind", "h", "b"],
         _ => &[
             "kind",
@@ -189,6 +213,16 @@ struct Height {
     span: Range<usize>,
 }
 
+/// Whether a load is non-zero, and where its magnitude is written.
+struct Magnitude {
+    nonzero: bool,
+    key: String,
+    span: Range<usize>,
+}
+
+/// Loads, their report entries and their magnitudes, in file order.
+type LoadsOut = (Vec<Load>, Vec<LoadInfo>, Vec<Magnitude>);
+
 /// The state of one resolution.
 struct Builder<'s> {
     src: &'s Source<'s>,
@@ -201,10 +235,19 @@ struct Builder<'s> {
 /// Resolve a parsed document.
 pub(crate) fn resolve(src: &Source<'_>, root: &DeTable<'_>) -> Result<ResolvedCase, CaseError> {
     let root_span = 0..0;
-    let top = Tab { src, path: "", span: &root_span, t: root };
+    let top = Tab {
+        src,
+        path: "",
+        span: &root_span,
+        t: root,
+    };
     match (top.get("kappa"), top.get("length")) {
         (Some(k), Some(l)) => {
-            let later = if k.key_span.start > l.key_span.start { k } else { l };
+            let later = if k.key_span.start > l.key_span.start {
+                k
+            } else {
+                l
+            };
             Err(src.error(
                 &later.key_span,
                 &later.key,
@@ -237,11 +280,23 @@ pub(crate) fn resolve(src: &Source<'_>, root: &DeTable<'_>) -> Result<ResolvedCa
             Err(src.error(&root_span, "", message))
         }
         (Some(_), None) => {
-            let mut b = Builder { src, phys: None, reg: Reg::default(), notes: Vec::new(), named_height_used: false };
+            let mut b = Builder {
+                src,
+                phys: None,
+                reg: Reg::default(),
+                notes: Vec::new(),
+                named_height_used: false,
+            };
             b.dimensionless(&top)
         }
         (None, Some(_)) => {
-            let mut b = Builder { src, phys: None, reg: Reg::default(), notes: Vec::new(), named_height_used: false };
+            let mut b = Builder {
+                src,
+                phys: None,
+                reg: Reg::default(),
+                notes: Vec::new(),
+                named_height_used: false,
+            };
             b.physical(&top)
         }
     }
@@ -287,24 +342,38 @@ impl<'s> Builder<'s> {
     }
 
     fn spring_unit(&self, dof: Dof) -> String {
-        if self.is_phys() { dof.phys_unit().to_string() } else { format!("units of {}", dof.dimless_unit()) }
+        if self.is_phys() {
+            dof.phys_unit().to_string()
+        } else {
+            format!("units of {}", dof.dimless_unit())
+        }
     }
 
     // ----- value readers -------------------------------------------------
 
     /// A position along the member as a fraction of L: a number (fraction of
     /// L, 0..1), or in a physical case a length with unit from the start.
-    fn position(&self, tab: &Tab<'_>, k: &str, default: Option<f64>, what: &str) -> Result<Num, CaseError> {
+    fn position(
+        &self,
+        tab: &Tab<'_>,
+        k: &str,
+        default: Option<f64>,
+        what: &str,
+    ) -> Result<Num, CaseError> {
         let Some(v) = tab.get(k) else {
             return match default {
-                Some(value) => Ok(Num { value, key: tab.key(k), span: tab.span.clone() }),
+                Some(value) => Ok(Num {
+                    value,
+                    key: tab.key(k),
+                    span: tab.span.clone(),
+                }),
                 None => {
                     let form = if self.is_phys() {
                         "a fraction of L (0 to 1) or a distance from the start such as \"2.5 m\""
                     } else {
                         "in units of L, 0 to 1"
                     };
-                    Err(tab.err_here(format!("missing `{k}` ({what}, {form})")))
+                    Err(tab.err_at(k, format!("missing `{k}` ({what}, {form})")))
                 }
             };
         };
@@ -368,10 +437,19 @@ impl<'s> Builder<'s> {
     }
 
     /// "fixed", "free" or a spring stiffness ≥ 0 (converted to the model's units).
-    fn fixity(&self, tab: &Tab<'_>, k: &str, default: Fixity, dof: Dof) -> Result<Fixity, CaseError> {
-        let Some(v) = tab.get(k) else { return Ok(default) };
+    fn fixity(
+        &self,
+        tab: &Tab<'_>,
+        k: &str,
+        default: Fixity,
+        dof: Dof,
+    ) -> Result<Fixity, CaseError> {
+        let Some(v) = tab.get(k) else {
+            return Ok(default);
+        };
         let unit = self.spring_unit(dof);
-        let accepted = format!("\"fixed\", \"free\" or a spring stiffness (a number ≥ 0, in {unit})");
+        let accepted =
+            format!("\"fixed\", \"free\" or a spring stiffness (a number ≥ 0, in {unit})");
         match v.v {
             DeValue::String(s) => match s.as_ref() {
                 "fixed" => Ok(Fixity::Fixed),
@@ -379,7 +457,10 @@ impl<'s> Builder<'s> {
                 other => Err(self.src.error(
                     &v.span,
                     &v.key,
-                    format!("unknown value \"{other}\"{}; accepted: {accepted}", did_you_mean(other, &["fixed", "free"])),
+                    format!(
+                        "unknown value \"{other}\"{}; accepted: {accepted}",
+                        did_you_mean_value(other, &["fixed", "free"])
+                    ),
                 )),
             },
             DeValue::Integer(_) | DeValue::Float(_) => {
@@ -388,13 +469,24 @@ impl<'s> Builder<'s> {
                     return Err(self.src.error(
                         &v.span,
                         &v.key,
-                        format!("a spring stiffness must be 0 or more ({unit}), got {}", n.value),
+                        format!(
+                            "a spring stiffness must be 0 or more ({unit}), got {}",
+                            n.value
+                        ),
                     ));
                 }
-                let factor = self.phys.as_ref().map(|p| p.spring_factor(dof)).unwrap_or(1.0);
+                let factor = self
+                    .phys
+                    .as_ref()
+                    .map(|p| p.spring_factor(dof))
+                    .unwrap_or(1.0);
                 Ok(Fixity::Spring(n.value * factor))
             }
-            other => Err(self.src.error(&v.span, &v.key, format!("expected {accepted}, found {}", type_name(other)))),
+            other => Err(self.src.error(
+                &v.span,
+                &v.key,
+                format!("expected {accepted}, found {}", type_name(other)),
+            )),
         }
     }
 
@@ -406,7 +498,13 @@ impl<'s> Builder<'s> {
             return Ok(Height { zeta, key, span });
         };
         let (key, span) = loc(tab, "height");
-        let Some(v) = tab.get("height") else { return Ok(Height { zeta: 0.0, key, span }) };
+        let Some(v) = tab.get("height") else {
+            return Ok(Height {
+                zeta: 0.0,
+                key,
+                span,
+            });
+        };
         let names = string_list(HEIGHT_NAMES);
         let a_m = match v.v {
             DeValue::String(s) if HEIGHT_NAMES.contains(&s.as_ref()) => {
@@ -439,8 +537,9 @@ impl<'s> Builder<'s> {
                 }
             }
             DeValue::String(s) => {
-                let looks_numeric =
-                    s.trim_start().starts_with(|c: char| c.is_ascii_digit() || c == '-' || c == '+' || c == '.');
+                let looks_numeric = s
+                    .trim_start()
+                    .starts_with(|c: char| c.is_ascii_digit() || c == '-' || c == '+' || c == '.');
                 if looks_numeric {
                     parse_length(s).map_err(|m| self.src.error(&v.span, &v.key, m))?
                 } else {
@@ -450,7 +549,7 @@ impl<'s> Builder<'s> {
                         format!(
                             "unknown height \"{s}\"{}; accepted: {names}, or a length with unit above the shear \
                              centre (negative below), such as \"120 mm\"",
-                            did_you_mean(s, HEIGHT_NAMES)
+                            did_you_mean_value(s, HEIGHT_NAMES)
                         ),
                     ));
                 }
@@ -475,16 +574,24 @@ impl<'s> Builder<'s> {
                 ));
             }
         };
-        Ok(Height { zeta: a_m * p.zeta_per_m, key, span })
+        Ok(Height {
+            zeta: a_m * p.zeta_per_m,
+            key,
+            span,
+        })
     }
 
     // ----- tables ---------------------------------------------------------
 
     fn solver(&mut self, top: &Tab<'_>) -> Result<Option<f64>, CaseError> {
-        let Some(loc) = top.table("solver")? else { return Ok(None) };
+        let Some(loc) = top.table("solver")? else {
+            return Ok(None);
+        };
         let t = loc.tab(self.src);
         t.check_keys(&["tolerance"], &|_| None)?;
-        let Some(n) = t.num("tolerance")? else { return Ok(None) };
+        let Some(n) = t.num("tolerance")? else {
+            return Ok(None);
+        };
         if !(n.value > 0.0 && n.value < 0.1) {
             return Err(self.src.error(
                 &n.span,
@@ -500,7 +607,12 @@ impl<'s> Builder<'s> {
     }
 
     /// `[start]`, `[end]` or one `[[support]]`.
-    fn support(&mut self, t: &Tab<'_>, model: &str, intermediate: bool) -> Result<Support, CaseError> {
+    fn support(
+        &mut self,
+        t: &Tab<'_>,
+        model: &str,
+        intermediate: bool,
+    ) -> Result<Support, CaseError> {
         let mut keys = vec!["preset"];
         keys.extend_from_slice(DOFS);
         if intermediate {
@@ -572,7 +684,10 @@ impl<'s> Builder<'s> {
             let support = self.support(&t, &format!("support[{i}]"), true)?;
             let at = self.position(&t, "at", None, "position of the support")?;
             self.reg.add_num(format!("support[{i}].at"), &at);
-            out.push(PointSupport { at: at.value, support });
+            out.push(PointSupport {
+                at: at.value,
+                support,
+            });
         }
         Ok(out)
     }
@@ -610,7 +725,12 @@ impl<'s> Builder<'s> {
                 self.reg.add(format!("{p}.{k}"), key, span);
             }
             self.reg.add(p.clone(), t.path.to_string(), t.span.clone());
-            out.push(Restraint { at: at.value, zeta: h.zeta, lateral, twist });
+            out.push(Restraint {
+                at: at.value,
+                zeta: h.zeta,
+                lateral,
+                twist,
+            });
         }
         Ok(out)
     }
@@ -629,14 +749,24 @@ impl<'s> Builder<'s> {
             let from = self.position(&t, "from", Some(0.0), "start of the range")?;
             let to = self.position(&t, "to", Some(1.0), "end of the range")?;
             if to.value <= from.value {
-                return Err(self.src.error(&to.span, &to.key, "`to` must be greater than `from`"));
+                return Err(self
+                    .src
+                    .error(&to.span, &to.key, "`to` must be greater than `from`"));
             }
             let h = self.height(&t)?;
             let mut k = [0.0; 2];
-            for (j, (name, dof)) in [("lateral", Dof::ContLateral), ("twist", Dof::ContTwist)].into_iter().enumerate() {
+            for (j, (name, dof)) in [("lateral", Dof::ContLateral), ("twist", Dof::ContTwist)]
+                .into_iter()
+                .enumerate()
+            {
                 let what = format!("the {name} stiffness ({})", self.spring_unit(dof));
                 if let Some(n) = t.num_min(name, None, false, &what)? {
-                    k[j] = n.value * self.phys.as_ref().map(|p| p.spring_factor(dof)).unwrap_or(1.0);
+                    k[j] = n.value
+                        * self
+                            .phys
+                            .as_ref()
+                            .map(|p| p.spring_factor(dof))
+                            .unwrap_or(1.0);
                 }
                 let (key, span) = loc_of(&t, name);
                 self.reg.add(format!("continuous[{i}].{name}"), key, span);
@@ -646,18 +776,20 @@ impl<'s> Builder<'s> {
             self.reg.add_num(format!("{p}.to"), &to);
             self.reg.add(format!("{p}.zeta"), h.key, h.span);
             self.reg.add(p, t.path.to_string(), t.span.clone());
-            out.push(ContinuousRestraint { from: from.value, to: to.value, zeta: h.zeta, lateral: k[0], twist: k[1] });
+            out.push(ContinuousRestraint {
+                from: from.value,
+                to: to.value,
+                zeta: h.zeta,
+                lateral: k[0],
+                twist: k[1],
+            });
         }
         Ok(out)
     }
 
     /// All `[[load]]` tables. Returns the loads, their report entries, and
     /// for each whether it is non-zero and where its magnitude is.
-    #[allow(clippy::type_complexity)]
-    fn loads(
-        &mut self,
-        top: &Tab<'_>,
-    ) -> Result<(Vec<Load>, Vec<LoadInfo>, Vec<(bool, String, Range<usize>)>), CaseError> {
+    fn loads(&mut self, top: &Tab<'_>) -> Result<LoadsOut, CaseError> {
         let (mut loads, mut infos, mut mags) = (Vec::new(), Vec::new(), Vec::new());
         let locs = top.tables("load")?;
         if let Some(first) = locs.first() {
@@ -673,19 +805,31 @@ impl<'s> Builder<'s> {
         Ok((loads, infos, mags))
     }
 
-    fn load(&mut self, t: &Tab<'_>, i: usize) -> Result<(Load, LoadInfo, (bool, String, Range<usize>)), CaseError> {
+    fn load(&mut self, t: &Tab<'_>, i: usize) -> Result<(Load, LoadInfo, Magnitude), CaseError> {
         let src = self.src;
         let kind = match t.choice("kind", LOAD_KINDS, "load kind")? {
             Some((k, _)) => k,
             None => {
-                return Err(t.err_here(format!("missing `kind`; accepted: {}", string_list(LOAD_KINDS))));
+                return Err(t.err_at(
+                    "kind",
+                    format!("missing `kind`; accepted: {}", string_list(LOAD_KINDS)),
+                ));
             }
         };
         let hk = self.height_key();
         let keys: Vec<&str> = match kind {
             "point" => vec!["kind", "name", "at", "value", "direction", hk],
             "uniform" => vec!["kind", "name", "value", "direction", hk],
-            "distributed" => vec!["kind", "name", "from", "to", "value", "value_end", "direction", hk],
+            "distributed" => vec![
+                "kind",
+                "name",
+                "from",
+                "to",
+                "value",
+                "value_end",
+                "direction",
+                hk,
+            ],
             _ => vec!["kind", "name", "start", "end"],
         };
         let moment_unit = if self.is_phys() { " (kN·m)" } else { "" };
@@ -724,6 +868,11 @@ impl<'s> Builder<'s> {
             (Some(ph), "end-moments") => ("kN·m", 1.0 / ph.mu),
             (Some(ph), _) => ("kN/m", ph.l * ph.l / ph.mu),
         };
+        let alt = if self.is_phys() {
+            format!(" (in {unit}, written without the unit)")
+        } else {
+            String::new()
+        };
         let length = self.phys.as_ref().map(|ph| ph.l);
         let pos_l = |x: f64| match length {
             Some(l) => format!("x = {}", fmt_m(x * l)),
@@ -731,39 +880,67 @@ impl<'s> Builder<'s> {
         };
 
         if kind == "end-moments" {
-            let start = t.num("start")?;
-            let end = t.num("end")?;
+            let start = t.num_with("start", &alt)?;
+            let end = t.num_with("end", &alt)?;
             if self.is_phys() && start.is_none() && end.is_none() {
                 return Err(t.err_here(
                     "an end-moments load needs `start` and/or `end` (kN·m, the bending moments at x = 0 and x = L, \
                      sagging positive)",
                 ));
             }
-            let (ms, me) = (start.as_ref().map_or(0.0, |n| n.value), end.as_ref().map_or(0.0, |n| n.value));
+            let (ms, me) = (
+                start.as_ref().map_or(0.0, |n| n.value),
+                end.as_ref().map_or(0.0, |n| n.value),
+            );
             for (k, n) in [("start", &start), ("end", &end)] {
                 match n {
                     Some(n) => self.reg.add_num(format!("{p}.{k}"), n),
                     None => self.reg.add(format!("{p}.{k}"), t.key(k), t.span.clone()),
                 }
             }
-            let mag = start.as_ref().or(end.as_ref()).map_or_else(|| (t.key("start"), t.span.clone()), |n| (n.key.clone(), n.span.clone()));
+            let mag = start.as_ref().or(end.as_ref()).map_or_else(
+                || (t.key("start"), t.span.clone()),
+                |n| (n.key.clone(), n.span.clone()),
+            );
             let position = match &self.phys {
                 Some(ph) => format!("x = 0 m and x = {}", fmt_m(ph.l)),
                 None => "at the ends".to_string(),
             };
-            let info = LoadInfo { name, kind: kind.into(), values: vec![ms, me], unit: unit.into(), zeta: None, position };
-            let load = Load::EndMoments { start: ms * factor, end: me * factor };
-            return Ok((load, info, (ms != 0.0 || me != 0.0, mag.0, mag.1)));
+            let info = LoadInfo {
+                name,
+                kind: kind.into(),
+                values: vec![ms, me],
+                unit: unit.into(),
+                zeta: None,
+                position,
+            };
+            let load = Load::EndMoments {
+                start: ms * factor,
+                end: me * factor,
+            };
+            return Ok((
+                load,
+                info,
+                Magnitude {
+                    nonzero: ms != 0.0 || me != 0.0,
+                    key: mag.0,
+                    span: mag.1,
+                },
+            ));
         }
 
-        let value = match t.num("value")? {
+        let value = match t.num_with("value", &alt)? {
             Some(n) => n,
             None if self.is_phys() => {
-                return Err(t.err_here(format!(
+                return Err(t.err_at("value", format!(
                     "missing `value` ({unit}): loads of a physical case have no default magnitude"
                 )));
             }
-            None => Num { value: 1.0, key: t.key("value"), span: t.span.clone() },
+            None => Num {
+                value: 1.0,
+                key: t.key("value"),
+                span: t.span.clone(),
+            },
         };
         let sign = match t.choice("direction", &["down", "up"], "direction")? {
             Some(("up", _)) => 1.0,
@@ -771,13 +948,18 @@ impl<'s> Builder<'s> {
         };
         let h = self.height(t)?;
         self.reg.add_num(format!("{p}.value"), &value);
-        self.reg.add(format!("{p}.zeta"), h.key.clone(), h.span.clone());
+        self.reg
+            .add(format!("{p}.zeta"), h.key.clone(), h.span.clone());
         let mut nonzero = value.value != 0.0;
         let (load, values, position) = match kind {
             "point" => {
                 let at = self.position(t, "at", None, "position of the load")?;
                 self.reg.add_num(format!("{p}.at"), &at);
-                let load = Load::Point { at: at.value, fz: sign * value.value * factor, zeta: h.zeta };
+                let load = Load::Point {
+                    at: at.value,
+                    fz: sign * value.value * factor,
+                    zeta: h.zeta,
+                };
                 (load, vec![value.value], pos_l(at.value))
             }
             "uniform" => {
@@ -796,9 +978,13 @@ impl<'s> Builder<'s> {
                 if to.value <= from.value {
                     return Err(src.error(&to.span, &to.key, "`to` must be greater than `from`"));
                 }
-                let value_end = match t.num("value_end")? {
+                let value_end = match t.num_with("value_end", &alt)? {
                     Some(n) => n,
-                    None => Num { value: value.value, key: value.key.clone(), span: value.span.clone() },
+                    None => Num {
+                        value: value.value,
+                        key: value.key.clone(),
+                        span: value.span.clone(),
+                    },
                 };
                 nonzero |= value_end.value != 0.0;
                 self.reg.add_num(format!("{p}.from"), &from);
@@ -811,12 +997,31 @@ impl<'s> Builder<'s> {
                     fz_to: sign * value_end.value * factor,
                     zeta: h.zeta,
                 };
-                let position = format!("{} to {}", pos_l(from.value), pos_l(to.value).trim_start_matches("x = "));
+                let position = format!(
+                    "{} to {}",
+                    pos_l(from.value),
+                    pos_l(to.value).trim_start_matches("x = ")
+                );
                 (load, vec![value.value, value_end.value], position)
             }
         };
-        let info = LoadInfo { name, kind: kind.into(), values, unit: unit.into(), zeta: Some(h.zeta), position };
-        Ok((load, info, (nonzero, value.key, value.span)))
+        let info = LoadInfo {
+            name,
+            kind: kind.into(),
+            values,
+            unit: unit.into(),
+            zeta: Some(h.zeta),
+            position,
+        };
+        Ok((
+            load,
+            info,
+            Magnitude {
+                nonzero,
+                key: value.key,
+                span: value.span,
+            },
+        ))
     }
 
     // ----- the two kinds of case -------------------------------------------
@@ -830,7 +1035,9 @@ impl<'s> Builder<'s> {
             )),
             _ => None,
         })?;
-        let kappa = top.num_min("kappa", None, false, "the torsion parameter κ")?.expect("kappa present");
+        let kappa = top
+            .num_min("kappa", None, false, "the torsion parameter κ")?
+            .expect("kappa present");
         self.reg.add_num("kappa", &kappa);
         let delta = top.num("delta")?;
         let (dk, ds) = loc(top, "delta");
@@ -844,7 +1051,10 @@ impl<'s> Builder<'s> {
             self.reg.add(k, key, span);
         }
         if axial.is_none() && (zc.is_some() || rho.is_some()) {
-            self.notes.push("`zeta_centroid` and `rho` are used only with `axial`; they are ignored here".into());
+            self.notes.push(
+                "`zeta_centroid` and `rho` are used only with `axial`; they are ignored here"
+                    .into(),
+            );
         }
         let axial = axial.map(|n| Axial {
             n: n.value,
@@ -875,7 +1085,9 @@ impl<'s> Builder<'s> {
             let mut r = [1.0; 4];
             for (j, k) in ratios.iter().enumerate() {
                 let strict = *k != "eiw";
-                if let Some(n) = t.num_min(k, None, strict, &format!("the stiffness ratio `{k}`"))? {
+                if let Some(n) =
+                    t.num_min(k, None, strict, &format!("the stiffness ratio `{k}`"))?
+                {
                     r[j] = n.value;
                 }
                 let (key, span) = loc_of(&t, k);
@@ -888,7 +1100,15 @@ impl<'s> Builder<'s> {
             let (key, span) = loc_of(&t, "delta");
             self.reg.add(format!("{p}.delta"), key, span);
             self.reg.add(p, t.path.to_string(), t.span.clone());
-            segments.push(Segment { from: from.value, to: to.value, eiz: r[0], git: r[1], eiw: r[2], eiy: r[3], delta: d });
+            segments.push(Segment {
+                from: from.value,
+                to: to.value,
+                eiz: r[0],
+                git: r[1],
+                eiw: r[2],
+                eiy: r[3],
+                delta: d,
+            });
         }
 
         let (loads, infos, mags) = self.loads(top)?;
@@ -906,7 +1126,14 @@ impl<'s> Builder<'s> {
             axial,
             segments,
         };
-        self.finish(member, Scales::UNIT, CaseKind::Dimensionless, infos, mags, tolerance)
+        self.finish(
+            member,
+            Scales::UNIT,
+            CaseKind::Dimensionless,
+            infos,
+            mags,
+            tolerance,
+        )
     }
 
     fn physical(&mut self, top: &Tab<'_>) -> Result<ResolvedCase, CaseError> {
@@ -927,17 +1154,26 @@ impl<'s> Builder<'s> {
         let lv = top.get("length").expect("length present");
         let l = match lv.v {
             DeValue::String(s) => parse_length(s).map_err(|m| src.error(&lv.span, &lv.key, m))?,
-            DeValue::Integer(_) | DeValue::Float(_) => number(src, &lv, " (metres) or a length with unit")?.value,
+            DeValue::Integer(_) | DeValue::Float(_) => {
+                number(src, &lv, " (metres) or a length with unit")?.value
+            }
             other => {
                 return Err(src.error(
                     &lv.span,
                     &lv.key,
-                    format!("expected a length such as \"6 m\" or a number of metres, found {}", type_name(other)),
+                    format!(
+                        "expected a length such as \"6 m\" or a number of metres, found {}",
+                        type_name(other)
+                    ),
                 ));
             }
         };
         if l <= 0.0 {
-            return Err(src.error(&lv.span, &lv.key, format!("the length must be greater than 0, got {}", fmt_m(l))));
+            return Err(src.error(
+                &lv.span,
+                &lv.key,
+                format!("the length must be greater than 0, got {}", fmt_m(l)),
+            ));
         }
         // Section.
         let Some(sloc) = top.table("section")? else {
@@ -955,8 +1191,12 @@ impl<'s> Builder<'s> {
         if let Some(mloc) = top.table("material")? {
             let mt = mloc.tab(src);
             mt.check_keys(&["e", "g", "axial"], &|_| None)?;
-            e = mt.num_min("e", Some(e), true, "Young's modulus E (MPa)")?.map_or(e, |n| n.value);
-            g = mt.num_min("g", Some(g), true, "the shear modulus G (MPa)")?.map_or(g, |n| n.value);
+            e = mt
+                .num_min("e", Some(e), true, "Young's modulus E (MPa)")?
+                .map_or(e, |n| n.value);
+            g = mt
+                .num_min("g", Some(g), true, "the shear modulus G (MPa)")?
+                .map_or(g, |n| n.value);
             if let Some(n) = mt.num("axial")? {
                 if !sec.area_given {
                     return Err(src.error(
@@ -987,7 +1227,15 @@ impl<'s> Builder<'s> {
             zeta_centroid: -pr.zs / 1000.0 * zeta_per_m,
             rho: ((pr.iy + pr.iz) / pr.area).sqrt() / 1000.0 * zeta_per_m,
         });
-        self.phys = Some(Phys { l, eiz, git, eiy, mu, zeta_per_m, sec: sec.clone() });
+        self.phys = Some(Phys {
+            l,
+            eiz,
+            git,
+            eiy,
+            mu,
+            zeta_per_m,
+            sec: sec.clone(),
+        });
 
         let tolerance = self.solver(top)?;
         let start = self.end_support(top, "start")?;
@@ -1008,7 +1256,7 @@ impl<'s> Builder<'s> {
             let from = self.position(&t, "from", None, "start of the segment")?;
             let to = self.position(&t, "to", None, "end of the segment")?;
             let Some(ssl) = t.table("section")? else {
-                return Err(t.err_here(
+                return Err(t.err_at("section",
                     "missing [segment.section]: give the segment's cross-section below the [[segment]] table, as \
                      `[segment.section]` with `kind` and dimensions like [section]",
                 ));
@@ -1030,7 +1278,8 @@ impl<'s> Builder<'s> {
             self.reg.add_num(format!("{p}.from"), &from);
             self.reg.add_num(format!("{p}.to"), &to);
             for k in ["eiz", "git", "eiw", "eiy", "delta"] {
-                self.reg.add(format!("{p}.{k}"), sst.path.to_string(), sst.span.clone());
+                self.reg
+                    .add(format!("{p}.{k}"), sst.path.to_string(), sst.span.clone());
             }
             self.reg.add(p, t.path.to_string(), t.span.clone());
             segments.push(Segment {
@@ -1054,7 +1303,18 @@ impl<'s> Builder<'s> {
                     .into(),
             );
         }
-        let member = Member { kappa, delta, start, end, supports, restraints, continuous, loads, axial, segments };
+        let member = Member {
+            kappa,
+            delta,
+            start,
+            end,
+            supports,
+            restraints,
+            continuous,
+            loads,
+            axial,
+            segments,
+        };
         let scales = Scales {
             length: l,
             moment: mu,
@@ -1063,7 +1323,13 @@ impl<'s> Builder<'s> {
             height: l / PI * (git / eiz).sqrt(),
             axial: eiz / (l * l),
         };
-        let kind = CaseKind::Physical(PhysicalInfo { length: l, e, g, section: sec.props, section_label: sec.label });
+        let kind = CaseKind::Physical(PhysicalInfo {
+            length: l,
+            e,
+            g,
+            section: sec.props,
+            section_label: sec.label,
+        });
         self.finish(member, scales, kind, infos, mags, tolerance)
     }
 
@@ -1074,7 +1340,7 @@ impl<'s> Builder<'s> {
         scales: Scales,
         kind: CaseKind,
         loads: Vec<LoadInfo>,
-        mags: Vec<(bool, String, Range<usize>)>,
+        mags: Vec<Magnitude>,
         tolerance: Option<f64>,
     ) -> Result<ResolvedCase, CaseError> {
         let axial_nonzero = member.axial.is_some_and(|a| a.n != 0.0);
@@ -1087,8 +1353,8 @@ impl<'s> Builder<'s> {
                      value = 1.0",
                 ));
             }
-            if mags.iter().all(|m| !m.0) {
-                let (_, key, span) = &mags[0];
+            if mags.iter().all(|m| !m.nonzero) {
+                let Magnitude { key, span, .. } = &mags[0];
                 return Err(self.src.error(
                     span,
                     key,
@@ -1105,7 +1371,14 @@ impl<'s> Builder<'s> {
             }
         }
         member.validate().map_err(|e| self.model_error(e))?;
-        Ok(ResolvedCase { member, scales, kind, loads, tolerance, notes: std::mem::take(&mut self.notes) })
+        Ok(ResolvedCase {
+            member,
+            scales,
+            kind,
+            loads,
+            tolerance,
+            notes: std::mem::take(&mut self.notes),
+        })
     }
 
     /// Place a model error at the key it came from.
@@ -1128,12 +1401,26 @@ fn loc_of(t: &Tab<'_>, k: &str) -> (String, Range<usize>) {
     loc(t, k)
 }
 
+/// Place a [`SectionError`] at its key in the section table (at the header
+/// when the key is not one of the table's keys).
+pub(crate) fn section_error(t: &Tab<'_>, keys: &[&str], e: SectionError) -> CaseError {
+    if !e.field.is_empty() && keys.contains(&e.field.as_str()) {
+        t.err_at(&e.field, e.message)
+    } else {
+        t.err_here(if e.field.is_empty() {
+            e.message
+        } else {
+            format!("{}: {}", e.field, e.message)
+        })
+    }
+}
+
 /// Read a `[section]` (or `[segment.section]`) table.
 fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError> {
     let kind = match t.choice("kind", SECTION_KINDS, "section kind")? {
         Some((k, _)) => k,
         None => {
-            return Err(t.err_here(format!(
+            return Err(t.err_at("kind", format!(
                 "missing `kind`; accepted: {} (\"i\": h, b, tf, tw, r; \"mono-i\": h, b_top, tf_top, b_bottom, \
                  tf_bottom, tw, r; \"rectangle\": h, b; \"properties\": iy, iz, it, iw, …)",
                 string_list(SECTION_KINDS)
@@ -1142,8 +1429,11 @@ fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError
     };
     let keys = section_keys(kind);
     t.check_keys(keys, &|k| {
-        let owners: Vec<&str> =
-            SECTION_KINDS.iter().copied().filter(|sk| *sk != kind && section_keys(sk).contains(&k)).collect();
+        let owners: Vec<&str> = SECTION_KINDS
+            .iter()
+            .copied()
+            .filter(|sk| *sk != kind && section_keys(sk).contains(&k))
+            .collect();
         if owners.is_empty() {
             None
         } else {
@@ -1154,22 +1444,38 @@ fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError
             ))
         }
     })?;
-    let dim = |k: &str, what: &str| -> Result<f64, CaseError> {
-        let n = t.num(k)?.ok_or_else(|| t.err_here(format!("missing `{k}` ({what}, mm)")))?;
+    let dim_u = |k: &str, what: &str, unit: &str| -> Result<f64, CaseError> {
+        let alt = format!(" (in {unit}, written without the unit)");
+        let n = t
+            .num_with(k, &alt)?
+            .ok_or_else(|| t.err_at(k, format!("missing `{k}` ({what}, {unit})")))?;
         if n.value <= 0.0 {
-            return Err(src.error(&n.span, &n.key, format!("{what} must be greater than 0 mm, got {}", n.value)));
+            return Err(src.error(
+                &n.span,
+                &n.key,
+                format!("{what} must be greater than 0 {unit}, got {}", n.value),
+            ));
         }
         Ok(n.value)
     };
+    let dim = |k: &str, what: &str| dim_u(k, what, "mm");
     let root_radius = || -> Result<f64, CaseError> {
-        Ok(t.num_min("r", Some(0.0), false, "the root radius r (mm)")?.map_or(0.0, |n| n.value))
+        Ok(t.num_min("r", Some(0.0), false, "the root radius r (mm)")?
+            .map_or(0.0, |n| n.value))
     };
     let (shape, label) = match kind {
         "i" => {
-            let (h, b, tf, tw) =
-                (dim("h", "the depth h")?, dim("b", "the flange width b")?, dim("tf", "the flange thickness tf")?, dim("tw", "the web thickness tw")?);
+            let (h, b, tf, tw) = (
+                dim("h", "the depth h")?,
+                dim("b", "the flange width b")?,
+                dim("tf", "the flange thickness tf")?,
+                dim("tw", "the web thickness tw")?,
+            );
             let r = root_radius()?;
-            (Some(Shape::I { h, b, tf, tw, r }), format!("I {h} × {b} × {tf} × {tw} mm, r = {r} mm"))
+            (
+                Some(Shape::I { h, b, tf, tw, r }),
+                format!("I {h} × {b} × {tf} × {tw} mm, r = {r} mm"),
+            )
         }
         "mono-i" => {
             let h = dim("h", "the depth h")?;
@@ -1180,40 +1486,56 @@ fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError
             let tw = dim("tw", "the web thickness tw")?;
             let r = root_radius()?;
             (
-                Some(Shape::MonoI { h, b_top, tf_top, b_bottom, tf_bottom, tw, r }),
-                format!("mono-I h = {h} mm, top flange {b_top} × {tf_top}, bottom flange {b_bottom} × {tf_bottom}, web {tw} mm, r = {r} mm"),
+                Some(Shape::MonoI {
+                    h,
+                    b_top,
+                    tf_top,
+                    b_bottom,
+                    tf_bottom,
+                    tw,
+                    r,
+                }),
+                format!(
+                    "mono-I h = {h} mm, top flange {b_top} × {tf_top}, bottom flange {b_bottom} × {tf_bottom}, web {tw} mm, r = {r} mm"
+                ),
             )
         }
         "rectangle" => {
             let (h, b) = (dim("h", "the depth h")?, dim("b", "the width b")?);
-            (Some(Shape::Rectangle { h, b }), format!("rectangle {h} × {b} mm"))
+            (
+                Some(Shape::Rectangle { h, b }),
+                format!("rectangle {h} × {b} mm"),
+            )
         }
         _ => (None, String::new()),
     };
     if let Some(shape) = shape {
-        let props = section::properties(&shape).map_err(|e| {
-            if !e.field.is_empty() && keys.contains(&e.field.as_str()) {
-                t.err_at(&e.field, e.message)
-            } else {
-                t.err_here(if e.field.is_empty() { e.message } else { format!("{}: {}", e.field, e.message) })
-            }
-        })?;
+        let props = section::properties(&shape).map_err(|e| section_error(t, keys, e))?;
         return Ok(SectionData {
             props,
-            heights: [Some(props.top_flange), Some(props.top_surface), Some(props.bottom_flange), Some(props.bottom_surface)],
+            heights: [
+                Some(props.top_flange),
+                Some(props.top_surface),
+                Some(props.bottom_flange),
+                Some(props.bottom_surface),
+            ],
             area_given: true,
             label,
         });
     }
     // kind = "properties"
-    let iy = dim("iy", "the major-axis second moment of area Iy (mm⁴)")?;
-    let iz = dim("iz", "the minor-axis second moment of area Iz (mm⁴)")?;
-    let it = dim("it", "the torsion constant It (mm⁴)")?;
+    let iy = dim_u("iy", "the major-axis second moment of area Iy", "mm⁴")?;
+    let iz = dim_u("iz", "the minor-axis second moment of area Iz", "mm⁴")?;
+    let it = dim_u("it", "the torsion constant It", "mm⁴")?;
     let iw = t.num_min("iw", None, false, "the warping constant Iw (mm⁶)")?;
-    let iw = iw.ok_or_else(|| t.err_here("missing `iw` (the warping constant Iw, mm⁶; 0 for a section without warping stiffness)"))?.value;
+    let iw = iw.ok_or_else(|| t.err_at("iw", "missing `iw` (the warping constant Iw, mm⁶; 0 for a section without warping stiffness)"))?.value;
     let area = match t.num("area")? {
         Some(n) if n.value <= 0.0 => {
-            return Err(src.error(&n.span, &n.key, format!("the area must be greater than 0 mm², got {}", n.value)));
+            return Err(src.error(
+                &n.span,
+                &n.key,
+                format!("the area must be greater than 0 mm², got {}", n.value),
+            ));
         }
         Some(n) => Some(n.value),
         None => None,
@@ -1221,7 +1543,15 @@ fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError
     let zs = t.num("zs")?.map_or(0.0, |n| n.value);
     let beta_y = t.num("beta_y")?.map_or(0.0, |n| n.value);
     let mut heights = [None; 4];
-    for (j, k) in ["top_flange", "top_surface", "bottom_flange", "bottom_surface"].iter().enumerate() {
+    for (j, k) in [
+        "top_flange",
+        "top_surface",
+        "bottom_flange",
+        "bottom_surface",
+    ]
+    .iter()
+    .enumerate()
+    {
         heights[j] = t.num(k)?.map(|n| n.value);
     }
     let props = Properties {
@@ -1237,6 +1567,13 @@ fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError
         bottom_flange: heights[2].unwrap_or(f64::NAN),
         bottom_surface: heights[3].unwrap_or(f64::NAN),
     };
-    let label = format!("section properties Iy = {iy:e} mm⁴, Iz = {iz:e} mm⁴, It = {it:e} mm⁴, Iw = {iw:e} mm⁶");
-    Ok(SectionData { props, heights, area_given: area.is_some(), label })
+    let label = format!(
+        "section properties Iy = {iy:e} mm⁴, Iz = {iz:e} mm⁴, It = {it:e} mm⁴, Iw = {iw:e} mm⁶"
+    );
+    Ok(SectionData {
+        props,
+        heights,
+        area_given: area.is_some(),
+        label,
+    })
 }

@@ -50,7 +50,12 @@ pub(crate) struct TabLoc<'a> {
 
 impl<'a> TabLoc<'a> {
     pub fn tab(&'a self, src: &'a Source<'a>) -> Tab<'a> {
-        Tab { src, path: &self.path, span: &self.span, t: self.t }
+        Tab {
+            src,
+            path: &self.path,
+            span: &self.span,
+            t: self.t,
+        }
     }
 }
 
@@ -82,32 +87,55 @@ fn distance(a: &str, b: &str) -> usize {
     prev[b.len()]
 }
 
-/// " (did you mean `x`?)" when a close candidate exists.
-pub(crate) fn did_you_mean(word: &str, candidates: &[&str]) -> String {
+/// The closest candidate to `word`, if close enough to be a typo.
+fn closest<'c>(word: &str, candidates: &[&'c str]) -> Option<&'c str> {
     let w = word.to_lowercase().replace('_', "-");
     candidates
         .iter()
         .map(|c| (distance(&w, &c.to_lowercase().replace('_', "-")), *c))
         .filter(|(d, c)| *d <= 2.max(c.len() / 4) && *d < c.len())
         .min_by_key(|(d, _)| *d)
-        .map(|(_, c)| format!(" (did you mean `{c}`?)"))
+        .map(|(_, c)| c)
+}
+
+/// " (did you mean `x`?)" for a key, when a close candidate exists.
+pub(crate) fn did_you_mean(word: &str, candidates: &[&str]) -> String {
+    closest(word, candidates)
+        .map(|c| format!(" (did you mean `{c}`?)"))
+        .unwrap_or_default()
+}
+
+/// " (did you mean \"x\"?)" for a string value, when a close candidate exists.
+pub(crate) fn did_you_mean_value(word: &str, candidates: &[&str]) -> String {
+    closest(word, candidates)
+        .map(|c| format!(" (did you mean \"{c}\"?)"))
         .unwrap_or_default()
 }
 
 /// "`a`, `b`, `c`" for messages.
 pub(crate) fn quoted_list(items: &[&str]) -> String {
-    items.iter().map(|k| format!("`{k}`")).collect::<Vec<_>>().join(", ")
+    items
+        .iter()
+        .map(|k| format!("`{k}`"))
+        .collect::<Vec<_>>()
+        .join(", ")
 }
 
 /// "\"a\", \"b\"" for messages about string choices.
 pub(crate) fn string_list(items: &[&str]) -> String {
-    items.iter().map(|k| format!("\"{k}\"")).collect::<Vec<_>>().join(", ")
+    items
+        .iter()
+        .map(|k| format!("\"{k}\""))
+        .collect::<Vec<_>>()
+        .join(", ")
 }
 
 /// Parse a TOML number (integer or float) to f64; None for other types.
 pub(crate) fn number_of(v: &DeValue<'_>) -> Option<f64> {
     match v {
-        DeValue::Integer(i) => i64::from_str_radix(i.as_str(), i.radix()).ok().map(|n| n as f64),
+        DeValue::Integer(i) => i64::from_str_radix(i.as_str(), i.radix())
+            .ok()
+            .map(|n| n as f64),
         DeValue::Float(f) => f.as_str().parse::<f64>().ok().or(Some(f64::NAN)),
         _ => None,
     }
@@ -116,7 +144,11 @@ pub(crate) fn number_of(v: &DeValue<'_>) -> Option<f64> {
 impl<'a> Tab<'a> {
     /// Full key path of `k` in this table.
     pub fn key(&self, k: &str) -> String {
-        if self.path.is_empty() { k.to_string() } else { format!("{}.{k}", self.path) }
+        if self.path.is_empty() {
+            k.to_string()
+        } else {
+            format!("{}.{k}", self.path)
+        }
     }
 
     /// An error at the table header, about the table itself.
@@ -137,7 +169,13 @@ impl<'a> Tab<'a> {
         let mut out: Vec<Val<'a>> = self
             .t
             .iter()
-            .map(|(k, v)| Val { name: k.get_ref().to_string(), key: self.key(k.get_ref()), key_span: k.span(), span: v.span(), v: v.get_ref() })
+            .map(|(k, v)| Val {
+                name: k.get_ref().to_string(),
+                key: self.key(k.get_ref()),
+                key_span: k.span(),
+                span: v.span(),
+                v: v.get_ref(),
+            })
             .collect();
         out.sort_by_key(|v| v.key_span.start);
         out
@@ -145,29 +183,35 @@ impl<'a> Tab<'a> {
 
     /// Look a key up.
     pub fn get(&self, k: &str) -> Option<Val<'a>> {
-        self.t.iter().find(|(kk, _)| kk.get_ref() == k).map(|(kk, v)| Val {
-            name: k.to_string(),
-            key: self.key(k),
-            key_span: kk.span(),
-            span: v.span(),
-            v: v.get_ref(),
-        })
-    }
-
-    /// True when the key is present.
-    pub fn has(&self, k: &str) -> bool {
-        self.t.iter().any(|(kk, _)| kk.get_ref() == k)
+        self.t
+            .iter()
+            .find(|(kk, _)| kk.get_ref() == k)
+            .map(|(kk, v)| Val {
+                name: k.to_string(),
+                key: self.key(k),
+                key_span: kk.span(),
+                span: v.span(),
+                v: v.get_ref(),
+            })
     }
 
     /// Reject any key not in `allowed`. `hint` may give a specific message for
     /// a key (for example "use `height`"); otherwise the accepted keys are listed.
-    pub fn check_keys(&self, allowed: &[&str], hint: &dyn Fn(&str) -> Option<String>) -> Result<(), CaseError> {
+    pub fn check_keys(
+        &self,
+        allowed: &[&str],
+        hint: &dyn Fn(&str) -> Option<String>,
+    ) -> Result<(), CaseError> {
         for e in self.entries() {
             let name = e.name.clone();
             if allowed.contains(&name.as_str()) {
                 continue;
             }
-            let where_ = if self.path.is_empty() { "at the top level".to_string() } else { format!("in `{}`", self.path) };
+            let where_ = if self.path.is_empty() {
+                "at the top level".to_string()
+            } else {
+                format!("in `{}`", self.path)
+            };
             let message = match hint(&name) {
                 Some(h) => format!("key `{name}` is not accepted {where_}: {h}"),
                 None => format!(
@@ -183,25 +227,42 @@ impl<'a> Tab<'a> {
 
     /// A sub-table (a `[x]` table, an inline table or dotted keys).
     pub fn table(&self, k: &str) -> Result<Option<TabLoc<'a>>, CaseError> {
-        let Some(v) = self.get(k) else { return Ok(None) };
+        let Some(v) = self.get(k) else {
+            return Ok(None);
+        };
         match v.v {
-            DeValue::Table(t) => Ok(Some(TabLoc { path: v.key, span: v.span, t })),
-            DeValue::Array(a) if !a.is_empty() && a.iter().all(|x| x.get_ref().is_table()) => Err(self.src.error(
-                &v.span,
-                &v.key,
-                format!("`{k}` must be a single table `[{}]`, not an array of tables `[[{}]]`", v.key, v.key),
-            )),
+            DeValue::Table(t) => Ok(Some(TabLoc {
+                path: v.key,
+                span: v.span,
+                t,
+            })),
+            DeValue::Array(a) if !a.is_empty() && a.iter().all(|x| x.get_ref().is_table()) => {
+                Err(self.src.error(
+                    &v.span,
+                    &v.key,
+                    format!(
+                        "`{k}` must be a single table `[{}]`, not an array of tables `[[{}]]`",
+                        v.key, v.key
+                    ),
+                ))
+            }
             other => Err(self.src.error(
                 &v.span,
                 &v.key,
-                format!("expected a table (write `[{}]` and its keys below it), found {}", v.key, type_name(other)),
+                format!(
+                    "expected a table (write `[{}]` and its keys below it), found {}",
+                    v.key,
+                    type_name(other)
+                ),
             )),
         }
     }
 
     /// An array of tables (`[[x]]` or an array of inline tables); empty when absent.
     pub fn tables(&self, k: &str) -> Result<Vec<TabLoc<'a>>, CaseError> {
-        let Some(v) = self.get(k) else { return Ok(Vec::new()) };
+        let Some(v) = self.get(k) else {
+            return Ok(Vec::new());
+        };
         let DeValue::Array(a) = v.v else {
             let found = type_name(v.v);
             let hint = if matches!(v.v, DeValue::Table(_)) {
@@ -209,17 +270,29 @@ impl<'a> Tab<'a> {
             } else {
                 format!("write `[[{}]]` tables", v.key)
             };
-            return Err(self.src.error(&v.span, &v.key, format!("expected an array of tables, found {found}; {hint}")));
+            return Err(self.src.error(
+                &v.span,
+                &v.key,
+                format!("expected an array of tables, found {found}; {hint}"),
+            ));
         };
         let mut out = Vec::new();
         for (i, item) in a.iter().enumerate() {
             match item.get_ref() {
-                DeValue::Table(t) => out.push(TabLoc { path: format!("{}[{i}]", v.key), span: item.span(), t }),
+                DeValue::Table(t) => out.push(TabLoc {
+                    path: format!("{}[{i}]", v.key),
+                    span: item.span(),
+                    t,
+                }),
                 other => {
                     return Err(self.src.error(
                         &item.span(),
                         &format!("{}[{i}]", v.key),
-                        format!("expected a table, found {}; write `[[{}]]` tables", type_name(other), v.key),
+                        format!(
+                            "expected a table, found {}; write `[[{}]]` tables",
+                            type_name(other),
+                            v.key
+                        ),
                     ));
                 }
             }
@@ -229,49 +302,86 @@ impl<'a> Tab<'a> {
 
     /// A finite number.
     pub fn num(&self, k: &str) -> Result<Option<Num>, CaseError> {
-        let Some(v) = self.get(k) else { return Ok(None) };
-        Ok(Some(number(self.src, &v, "")?))
+        self.num_with(k, "")
     }
 
-    /// A finite number, required.
-    pub fn num_req(&self, k: &str, what: &str) -> Result<Num, CaseError> {
-        self.num(k)?.ok_or_else(|| self.err_here(format!("missing `{k}` ({what})")))
+    /// A finite number; `alt` adds to "expected a number" (for example " in kN").
+    pub fn num_with(&self, k: &str, alt: &str) -> Result<Option<Num>, CaseError> {
+        let Some(v) = self.get(k) else {
+            return Ok(None);
+        };
+        Ok(Some(number(self.src, &v, alt)?))
     }
 
     /// A finite number ≥ 0 (or > 0 when `strict`), with a default.
-    pub fn num_min(&self, k: &str, default: Option<f64>, strict: bool, what: &str) -> Result<Option<Num>, CaseError> {
+    pub fn num_min(
+        &self,
+        k: &str,
+        default: Option<f64>,
+        strict: bool,
+        what: &str,
+    ) -> Result<Option<Num>, CaseError> {
         let n = match self.num(k)? {
             Some(n) => n,
             None => {
-                return Ok(default.map(|value| Num { value, key: self.key(k), span: self.span.clone() }));
+                return Ok(default.map(|value| Num {
+                    value,
+                    key: self.key(k),
+                    span: self.span.clone(),
+                }));
             }
         };
         if strict && n.value <= 0.0 {
-            return Err(self.src.error(&n.span, &n.key, format!("{what} must be greater than 0, got {}", n.value)));
+            return Err(self.src.error(
+                &n.span,
+                &n.key,
+                format!("{what} must be greater than 0, got {}", n.value),
+            ));
         }
         if !strict && n.value < 0.0 {
-            return Err(self.src.error(&n.span, &n.key, format!("{what} must be 0 or more, got {}", n.value)));
+            return Err(self.src.error(
+                &n.span,
+                &n.key,
+                format!("{what} must be 0 or more, got {}", n.value),
+            ));
         }
         Ok(Some(n))
     }
 
     /// A string.
     pub fn string(&self, k: &str) -> Result<Option<(String, Val<'a>)>, CaseError> {
-        let Some(v) = self.get(k) else { return Ok(None) };
+        let Some(v) = self.get(k) else {
+            return Ok(None);
+        };
         match v.v {
             DeValue::String(s) => Ok(Some((s.to_string(), v))),
-            other => Err(self.src.error(&v.span, &v.key, format!("expected a string, found {}", type_name(other)))),
+            other => Err(self.src.error(
+                &v.span,
+                &v.key,
+                format!("expected a string, found {}", type_name(other)),
+            )),
         }
     }
 
     /// One of a fixed set of strings.
-    pub fn choice(&self, k: &str, accepted: &[&'static str], what: &str) -> Result<Option<(&'static str, Val<'a>)>, CaseError> {
-        let Some(v) = self.get(k) else { return Ok(None) };
+    pub fn choice(
+        &self,
+        k: &str,
+        accepted: &[&'static str],
+        what: &str,
+    ) -> Result<Option<(&'static str, Val<'a>)>, CaseError> {
+        let Some(v) = self.get(k) else {
+            return Ok(None);
+        };
         let DeValue::String(s) = v.v else {
             return Err(self.src.error(
                 &v.span,
                 &v.key,
-                format!("expected a string, one of {}, found {}", string_list(accepted), type_name(v.v)),
+                format!(
+                    "expected a string, one of {}, found {}",
+                    string_list(accepted),
+                    type_name(v.v)
+                ),
             ));
         };
         match accepted.iter().find(|a| **a == s.as_ref()) {
@@ -279,7 +389,11 @@ impl<'a> Tab<'a> {
             None => Err(self.src.error(
                 &v.span,
                 &v.key,
-                format!("unknown {what} \"{s}\"{}; accepted: {}", did_you_mean(s, accepted), string_list(accepted)),
+                format!(
+                    "unknown {what} \"{s}\"{}; accepted: {}",
+                    did_you_mean_value(s, accepted),
+                    string_list(accepted)
+                ),
             )),
         }
     }
@@ -289,16 +403,27 @@ impl<'a> Tab<'a> {
 /// keys that also take strings).
 pub(crate) fn number(src: &Source<'_>, v: &Val<'_>, alt: &str) -> Result<Num, CaseError> {
     let Some(x) = number_of(v.v) else {
-        return Err(src.error(&v.span, &v.key, format!("expected a number{alt}, found {}", type_name(v.v))));
+        return Err(src.error(
+            &v.span,
+            &v.key,
+            format!("expected a number{alt}, found {}", type_name(v.v)),
+        ));
     };
     if !x.is_finite() {
         return Err(src.error(
             &v.span,
             &v.key,
-            format!("`{}` is not accepted: give a finite number", src.slice(&v.span).trim()),
+            format!(
+                "`{}` is not accepted: give a finite number",
+                src.slice(&v.span).trim()
+            ),
         ));
     }
-    Ok(Num { value: x, key: v.key.clone(), span: v.span.clone() })
+    Ok(Num {
+        value: x,
+        key: v.key.clone(),
+        span: v.span.clone(),
+    })
 }
 
 #[cfg(test)]
@@ -307,8 +432,14 @@ mod tests {
 
     #[test]
     fn case_did_you_mean_suggests_close_keys() {
-        assert_eq!(did_you_mean("warpin", &["lateral", "warping"]), " (did you mean `warping`?)");
-        assert_eq!(did_you_mean("builtin", &["fork", "built-in", "free"]), " (did you mean `built-in`?)");
+        assert_eq!(
+            did_you_mean("warpin", &["lateral", "warping"]),
+            " (did you mean `warping`?)"
+        );
+        assert_eq!(
+            did_you_mean_value("builtin", &["fork", "built-in", "free"]),
+            " (did you mean \"built-in\"?)"
+        );
         assert_eq!(did_you_mean("zzzzzz", &["fork", "built-in", "free"]), "");
     }
 }

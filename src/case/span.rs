@@ -31,7 +31,13 @@ impl Source<'_> {
     /// An error at the start of `span`, about `key`.
     pub fn error(&self, span: &Range<usize>, key: &str, message: impl Into<String>) -> CaseError {
         let (line, column) = self.line_col(span.start);
-        CaseError { file: self.origin.to_string(), line, column, key: key.to_string(), message: message.into() }
+        CaseError {
+            file: self.origin.to_string(),
+            line,
+            column,
+            key: key.to_string(),
+            message: message.into(),
+        }
     }
 
     /// The source text covered by `span` (empty when out of range).
@@ -46,7 +52,10 @@ mod tests {
 
     #[test]
     fn case_line_col_counts_characters() {
-        let s = Source { text: "a = 1\n# κζ\nb = 2\n", origin: "x" };
+        let s = Source {
+            text: "a = 1\n# κζ\nb = 2\n",
+            origin: "x",
+        };
         assert_eq!(s.line_col(0), (1, 1));
         assert_eq!(s.line_col(4), (1, 5));
         assert_eq!(s.line_col(6), (2, 1));

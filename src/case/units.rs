@@ -3,16 +3,30 @@
 
 /// Accepted length units and their size in metres (1 ft = 0.3048 m and
 /// 1 in = 0.0254 m exactly, by the international yard and pound agreement of 1959).
-pub(crate) const LENGTH_UNITS: &[(&str, f64)] =
-    &[("m", 1.0), ("mm", 1e-3), ("cm", 1e-2), ("ft", 0.3048), ("in", 0.0254)];
+pub(crate) const LENGTH_UNITS: &[(&str, f64)] = &[
+    ("m", 1.0),
+    ("mm", 1e-3),
+    ("cm", 1e-2),
+    ("ft", 0.3048),
+    ("in", 0.0254),
+];
 
 /// Named heights accepted for `height` in a physical case.
-pub(crate) const HEIGHT_NAMES: &[&str] =
-    &["top-flange", "top-surface", "shear-centre", "bottom-flange", "bottom-surface"];
+pub(crate) const HEIGHT_NAMES: &[&str] = &[
+    "top-flange",
+    "top-surface",
+    "shear-centre",
+    "bottom-flange",
+    "bottom-surface",
+];
 
 /// The accepted units as a list for messages: "m, mm, cm, ft, in".
 pub(crate) fn unit_list() -> String {
-    LENGTH_UNITS.iter().map(|(u, _)| *u).collect::<Vec<_>>().join(", ")
+    LENGTH_UNITS
+        .iter()
+        .map(|(u, _)| *u)
+        .collect::<Vec<_>>()
+        .join(", ")
 }
 
 /// Parse "<number> <unit>" (the space is optional) into metres.
@@ -37,10 +51,14 @@ pub(crate) fn parse_length(text: &str) -> Result<f64, String> {
         ));
     };
     let value: f64 = num.parse().map_err(|_| {
-        format!("\"{text}\" does not start with a number; write for example \"2.5 m\" or \"300 mm\"")
+        format!(
+            "\"{text}\" does not start with a number; write for example \"2.5 m\" or \"300 mm\""
+        )
     })?;
     if !value.is_finite() {
-        return Err(format!("\"{text}\" is not a finite length; give a finite number with a unit"));
+        return Err(format!(
+            "\"{text}\" is not a finite length; give a finite number with a unit"
+        ));
     }
     Ok(value * factor)
 }

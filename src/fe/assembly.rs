@@ -18,7 +18,7 @@
 //! ```
 
 use super::element::{self, ElementData, Mat8};
-use super::inplane::{distributed_on, MomentField};
+use super::inplane::{MomentField, distributed_on};
 use super::mesh::node_at;
 use crate::linalg::band::BandMatrix;
 use crate::model::{Fixity, Load, Member, Support};
@@ -60,7 +60,9 @@ fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
         if row >= a.len() {
             break;
         }
-        let (p, mx) = (row..a.len()).map(|i| (i, a[i][col].abs())).fold((row, 0.0), |b, c| if c.1 > b.1 { c } else { b });
+        let (p, mx) = (row..a.len())
+            .map(|i| (i, a[i][col].abs()))
+            .fold((row, 0.0), |b, c| if c.1 > b.1 { c } else { b });
         if mx < 1e-12 {
             continue;
         }
@@ -134,7 +136,10 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
     let nn = x.len();
     let ne = nn - 1;
     // Element data.
-    let ax = m.axial.map(|a| [a.n, a.zeta_centroid / PI, (a.rho / PI).powi(2)]).unwrap_or([0.0; 3]);
+    let ax = m
+        .axial
+        .map(|a| [a.n, a.zeta_centroid / PI, (a.rho / PI).powi(2)])
+        .unwrap_or([0.0; 3]);
     let els: Vec<ElementData> = (0..ne)
         .map(|e| {
             let (a, b) = (x[e], x[e + 1]);
@@ -181,7 +186,9 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
                     a.rows.push(unit(3));
                     a.rows.push(unit(4));
                 }
-                Fixity::Spring(k) if k > 0.0 => add_outer(&mut a.spring, &unit(if i + 1 == nn { 3 } else { 4 }), k),
+                Fixity::Spring(k) if k > 0.0 => {
+                    add_outer(&mut a.spring, &unit(if i + 1 == nn { 3 } else { 4 }), k)
+                }
                 _ => {}
             }
         }
@@ -229,7 +236,13 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         off += r;
     }
     let n = off;
-    let bw = dofs.windows(2).map(|w| w[0].r + w[1].r).max().unwrap_or(1).max(1) - 1;
+    let bw = dofs
+        .windows(2)
+        .map(|w| w[0].r + w[1].r)
+        .max()
+        .unwrap_or(1)
+        .max(1)
+        - 1;
     let mut k = BandMatrix::zeros(n, bw);
     let mut g = BandMatrix::zeros(n, bw);
 
@@ -244,18 +257,34 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         scatter_node(&mut k, &a.spring, &dofs[i]);
         scatter_node(&mut g, &a.geo, &dofs[i]);
     }
-    System { x: x.to_vec(), dofs, k, g }
+    System {
+        x: x.to_vec(),
+        dofs,
+        k,
+        g,
+    }
 }
 
 /// Full DOFs of an element end: left node uses φ'₊ (index 4), right node φ'₋ (3).
 const LEFT: [usize; 4] = [0, 1, 2, 4];
 const RIGHT: [usize; 4] = [0, 1, 2, 3];
 
-fn scatter_element(k: &mut BandMatrix, g: &mut BandMatrix, ke: &Mat8, ge: &Mat8, d1: &NodeDofs, d2: &NodeDofs) {
+fn scatter_element(
+    k: &mut BandMatrix,
+    g: &mut BandMatrix,
+    ke: &Mat8,
+    ge: &Mat8,
+    d1: &NodeDofs,
+    d2: &NodeDofs,
+) {
     // For each local full DOF, its (global reduced index, coefficient) list.
     let mut lists: [([(usize, f64); NFULL], usize); 8] = [([(0, 0.0); NFULL], 0); 8];
     for l in 0..8 {
-        let (d, f) = if l < 4 { (d1, LEFT[l]) } else { (d2, RIGHT[l - 4]) };
+        let (d, f) = if l < 4 {
+            (d1, LEFT[l])
+        } else {
+            (d2, RIGHT[l - 4])
+        };
         let mut cnt = 0;
         for c in 0..d.r {
             let v = d.t[f][c];
@@ -330,20 +359,35 @@ impl System {
     pub fn restrict(&self, full: &[[f64; NFULL]]) -> Vec<f64> {
         let mut out = vec![0.0; self.n()];
         for (d, f) in self.dofs.iter().zip(full) {
-            // Normal equations (TᵀT)·r = Tᵀ·f, at most 5×5.
+            // Normal equations (TᵀT)·r = Tᵀ·f, at most 5×5, by Gauss–Jordan.
             let r = d.r;
-            let mut a = nalgebra::DMatrix::<f64>::zeros(r, r);
-            let mut b = nalgebra::DVector::<f64>::zeros(r);
+            let mut a = [[0.0; NFULL + 1]; NFULL];
             for i in 0..r {
                 for j in 0..r {
-                    a[(i, j)] = (0..NFULL).map(|k| d.t[k][i] * d.t[k][j]).sum();
+                    a[i][j] = (0..NFULL).map(|k| d.t[k][i] * d.t[k][j]).sum();
                 }
-                b[i] = (0..NFULL).map(|k| d.t[k][i] * f[k]).sum();
+                a[i][r] = (0..NFULL).map(|k| d.t[k][i] * f[k]).sum();
             }
-            if let Some(sol) = a.cholesky().map(|c| c.solve(&b)) {
-                for i in 0..r {
-                    out[d.offset + i] = sol[i];
+            for c in 0..r {
+                let p = a[c][c];
+                if p.abs() < 1e-300 {
+                    continue;
                 }
+                for i in 0..r {
+                    if i != c {
+                        let q = a[i][c] / p;
+                        for j in c..=r {
+                            a[i][j] -= q * a[c][j];
+                        }
+                    }
+                }
+            }
+            for i in 0..r {
+                out[d.offset + i] = if a[i][i] != 0.0 {
+                    a[i][r] / a[i][i]
+                } else {
+                    0.0
+                };
             }
         }
         out
@@ -392,7 +436,11 @@ mod tests {
 
     #[test]
     fn two_heights_fix_both_v_and_phi() {
-        let rows = [[1.0, 0.0, -0.2, 0.0, 0.0], [1.0, 0.0, 0.4, 0.0, 0.0], [0.0, 0.0, 0.0, 1.0, -1.0]];
+        let rows = [
+            [1.0, 0.0, -0.2, 0.0, 0.0],
+            [1.0, 0.0, 0.4, 0.0, 0.0],
+            [0.0, 0.0, 0.0, 1.0, -1.0],
+        ];
         let (t, r) = null_space(&rows);
         assert_eq!(r, 2);
         for c in 0..r {

@@ -50,14 +50,24 @@ pub const GAUSS4: [(f64, f64); 4] = [
 pub fn hermite(xi: f64, h: f64) -> ([f64; 4], [f64; 4], [f64; 4]) {
     let x2 = xi * xi;
     let x3 = x2 * xi;
-    let n = [1.0 - 3.0 * x2 + 2.0 * x3, h * (xi - 2.0 * x2 + x3), 3.0 * x2 - 2.0 * x3, h * (x3 - x2)];
+    let n = [
+        1.0 - 3.0 * x2 + 2.0 * x3,
+        h * (xi - 2.0 * x2 + x3),
+        3.0 * x2 - 2.0 * x3,
+        h * (x3 - x2),
+    ];
     let d = [
         (-6.0 * xi + 6.0 * x2) / h,
         1.0 - 4.0 * xi + 3.0 * x2,
         (6.0 * xi - 6.0 * x2) / h,
         3.0 * x2 - 2.0 * xi,
     ];
-    let dd = [(-6.0 + 12.0 * xi) / (h * h), (-4.0 + 6.0 * xi) / h, (6.0 - 12.0 * xi) / (h * h), (6.0 * xi - 2.0) / h];
+    let dd = [
+        (-6.0 + 12.0 * xi) / (h * h),
+        (-4.0 + 6.0 * xi) / h,
+        (6.0 - 12.0 * xi) / (h * h),
+        (6.0 * xi - 2.0) / h,
+    ];
     (n, d, dd)
 }
 
@@ -233,10 +243,24 @@ mod tests {
         let k = stiffness(&e);
         let g = geometric(&e);
         let u = [0.3, -1.1, 0.7, 0.2, -0.4, 0.9, 1.3, -0.6];
-        let quad = |a: &Mat8| 0.5 * (0..8).map(|i| (0..8).map(|j| u[i] * a[i][j] * u[j]).sum::<f64>()).sum::<f64>();
+        let quad = |a: &Mat8| {
+            0.5 * (0..8)
+                .map(|i| (0..8).map(|j| u[i] * a[i][j] * u[j]).sum::<f64>())
+                .sum::<f64>()
+        };
         let (uk, ug) = energies(&e, &u);
-        assert!((quad(&k) - uk).abs() < 1e-6 * uk.abs().max(1.0), "{} vs {}", quad(&k), uk);
-        assert!((quad(&g) - ug).abs() < 1e-6 * ug.abs().max(1.0), "{} vs {}", quad(&g), ug);
+        assert!(
+            (quad(&k) - uk).abs() < 1e-6 * uk.abs().max(1.0),
+            "{} vs {}",
+            quad(&k),
+            uk
+        );
+        assert!(
+            (quad(&g) - ug).abs() < 1e-6 * ug.abs().max(1.0),
+            "{} vs {}",
+            quad(&g),
+            ug
+        );
     }
 
     #[test]

@@ -18,7 +18,7 @@
 //!   stiffness, consistent load vectors for linearly varying loads).
 //! - Timoshenko, S. P. & Gere, J. M. (1961). *Theory of Elastic Stability*, §1.1 (M'' = q).
 
-use super::mesh::{node_at, KeyPoint};
+use super::mesh::{KeyPoint, node_at};
 use crate::linalg::band::BandMatrix;
 use crate::model::{Fixity, Load, Member, Support};
 
@@ -44,7 +44,10 @@ impl MomentField {
     /// A zero field (no transverse load).
     pub fn zero(x: Vec<f64>) -> MomentField {
         let n = x.len() - 1;
-        MomentField { x, coef: vec![[0.0; 4]; n] }
+        MomentField {
+            x,
+            coef: vec![[0.0; 4]; n],
+        }
     }
 
     fn span(&self, x: f64) -> usize {
@@ -140,7 +143,14 @@ pub fn distributed_on(m: &Member, a: f64, b: f64, weight: impl Fn(f64) -> f64) -
     let mid = 0.5 * (a + b);
     let mut q = [0.0; 2];
     for l in &m.loads {
-        if let Load::Distributed { from, to, fz_from, fz_to, zeta } = *l {
+        if let Load::Distributed {
+            from,
+            to,
+            fz_from,
+            fz_to,
+            zeta,
+        } = *l
+        {
             if mid > from && mid < to {
                 let f = |x: f64| fz_from + (fz_to - fz_from) * (x - from) / (to - from);
                 let w = weight(zeta);
@@ -233,7 +243,9 @@ pub fn moments(m: &Member, keys: &[KeyPoint]) -> Result<MomentField, InPlaneMech
     let mut coef = Vec::with_capacity(nn - 1);
     for (i, (h, ke, fe, q0, q1)) in elem.iter().enumerate() {
         let ue = [u[2 * i], u[2 * i + 1], u[2 * i + 2], u[2 * i + 3]];
-        let r: Vec<f64> = (0..4).map(|a| (0..4).map(|b| ke[a][b] * ue[b]).sum::<f64>() - fe[a]).collect();
+        let r: Vec<f64> = (0..4)
+            .map(|a| (0..4).map(|b| ke[a][b] * ue[b]).sum::<f64>() - fe[a])
+            .collect();
         coef.push([-r[1], r[0], 0.5 * q0, (q1 - q0) / (6.0 * h)]);
     }
     Ok(MomentField { x, coef })
@@ -241,7 +253,10 @@ pub fn moments(m: &Member, keys: &[KeyPoint]) -> Result<MomentField, InPlaneMech
 
 fn mechanism_message(sup: &[(usize, Support)]) -> String {
     let vertical = sup.iter().filter(|(_, s)| !s.vertical.is_free()).count();
-    let rot = sup.iter().filter(|(_, s)| !s.in_plane_rotation.is_free()).count();
+    let rot = sup
+        .iter()
+        .filter(|(_, s)| !s.in_plane_rotation.is_free())
+        .count();
     if vertical == 0 {
         "the member is a mechanism in its own plane: no support holds it vertically; \
          set `vertical = \"fixed\"` (or use preset \"fork\" or \"built-in\") at a support"
@@ -269,7 +284,17 @@ mod tests {
     #[test]
     fn simply_supported_uniform_load() {
         // M = q·x·(1 − x)/2 for downward q (statics, any textbook).
-        let m = member(Support::FORK, Support::FORK, Load::Distributed { from: 0.0, to: 1.0, fz_from: -1.0, fz_to: -1.0, zeta: 0.0 });
+        let m = member(
+            Support::FORK,
+            Support::FORK,
+            Load::Distributed {
+                from: 0.0,
+                to: 1.0,
+                fz_from: -1.0,
+                fz_to: -1.0,
+                zeta: 0.0,
+            },
+        );
         let f = moments(&m, &key_points(&m)).unwrap();
         for x in [0.1, 0.3, 0.5, 0.77] {
             assert!((f.at(x) - x * (1.0 - x) / 2.0).abs() < 1e-12);
@@ -283,7 +308,17 @@ mod tests {
         // Fixed-end moments −qL²/12, midspan +qL²/24 (standard beam tables).
         let mut fixed = Support::FORK;
         fixed.in_plane_rotation = Fixity::Fixed;
-        let m = member(fixed, fixed, Load::Distributed { from: 0.0, to: 1.0, fz_from: -1.0, fz_to: -1.0, zeta: 0.0 });
+        let m = member(
+            fixed,
+            fixed,
+            Load::Distributed {
+                from: 0.0,
+                to: 1.0,
+                fz_from: -1.0,
+                fz_to: -1.0,
+                zeta: 0.0,
+            },
+        );
         let f = moments(&m, &key_points(&m)).unwrap();
         assert!((f.at(0.0) + 1.0 / 12.0).abs() < 1e-12);
         assert!((f.at(0.5) - 1.0 / 24.0).abs() < 1e-12);
@@ -293,7 +328,15 @@ mod tests {
     fn propped_cantilever_point_load() {
         // Built-in at 0, propped at 1, central load P: root moment −3PL/16,
         // under the load +5PL/32 (standard beam tables).
-        let m = member(Support::BUILT_IN, Support::FORK, Load::Point { at: 0.5, fz: -1.0, zeta: 0.0 });
+        let m = member(
+            Support::BUILT_IN,
+            Support::FORK,
+            Load::Point {
+                at: 0.5,
+                fz: -1.0,
+                zeta: 0.0,
+            },
+        );
         let f = moments(&m, &key_points(&m)).unwrap();
         assert!((f.at(0.0) + 3.0 / 16.0).abs() < 1e-12);
         assert!((f.at(0.5) - 5.0 / 32.0).abs() < 1e-12);
@@ -301,10 +344,25 @@ mod tests {
 
     #[test]
     fn cantilever_tip_load_and_end_moments() {
-        let m = member(Support::BUILT_IN, Support::FREE, Load::Point { at: 1.0, fz: -1.0, zeta: 0.0 });
+        let m = member(
+            Support::BUILT_IN,
+            Support::FREE,
+            Load::Point {
+                at: 1.0,
+                fz: -1.0,
+                zeta: 0.0,
+            },
+        );
         let f = moments(&m, &key_points(&m)).unwrap();
         assert!((f.at(0.0) + 1.0).abs() < 1e-12 && f.at(1.0).abs() < 1e-12);
-        let m = member(Support::FORK, Support::FORK, Load::EndMoments { start: 1.0, end: -0.5 });
+        let m = member(
+            Support::FORK,
+            Support::FORK,
+            Load::EndMoments {
+                start: 1.0,
+                end: -0.5,
+            },
+        );
         let f = moments(&m, &key_points(&m)).unwrap();
         assert!((f.at(0.0) - 1.0).abs() < 1e-12 && (f.at(1.0) + 0.5).abs() < 1e-12);
         assert!((f.at(0.5) - 0.25).abs() < 1e-12);
@@ -312,7 +370,15 @@ mod tests {
 
     #[test]
     fn mechanism_is_reported() {
-        let m = member(Support::FREE, Support::FREE, Load::Point { at: 0.5, fz: -1.0, zeta: 0.0 });
+        let m = member(
+            Support::FREE,
+            Support::FREE,
+            Load::Point {
+                at: 0.5,
+                fz: -1.0,
+                zeta: 0.0,
+            },
+        );
         assert!(moments(&m, &key_points(&m)).is_err());
     }
 }

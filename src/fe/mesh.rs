@@ -36,7 +36,11 @@ pub struct MeshControls {
 
 impl Default for MeshControls {
     fn default() -> Self {
-        MeshControls { h_max: 0.25, first: 0.5, growth: 2.2 }
+        MeshControls {
+            h_max: 0.25,
+            first: 1.5,
+            growth: 2.2,
+        }
     }
 }
 
@@ -128,7 +132,11 @@ fn graded(len: f64, w: f64, c: &MeshControls) -> Vec<f64> {
 /// Base (level 0) node positions for a member. `layer_width(x)` gives the
 /// twist layer width √(E·Iw/G·It) of the segment around x (0 for no warping
 /// stiffness, where no grading is needed).
-pub fn base_nodes(keys: &[KeyPoint], layer_width: impl Fn(f64) -> f64, c: &MeshControls) -> Vec<f64> {
+pub fn base_nodes(
+    keys: &[KeyPoint],
+    layer_width: impl Fn(f64) -> f64,
+    c: &MeshControls,
+) -> Vec<f64> {
     let mut x = vec![keys[0].x];
     for pair in keys.windows(2) {
         let (a, b) = (pair[0], pair[1]);
@@ -205,11 +213,20 @@ mod tests {
     #[test]
     fn graded_mesh_covers_span_and_grows() {
         let c = MeshControls::default();
-        let keys = [KeyPoint { x: 0.0, layer: true }, KeyPoint { x: 1.0, layer: false }];
+        let keys = [
+            KeyPoint {
+                x: 0.0,
+                layer: true,
+            },
+            KeyPoint {
+                x: 1.0,
+                layer: false,
+            },
+        ];
         let x = base_nodes(&keys, |_| 0.01, &c);
         assert_eq!(x[0], 0.0);
         assert_eq!(*x.last().unwrap(), 1.0);
-        assert!(x[1] - x[0] <= 0.01);
+        assert!(x[1] - x[0] <= c.first * 0.01 + 1e-15);
         for w in x.windows(2) {
             assert!(w[1] > w[0]);
             assert!(w[1] - w[0] <= c.h_max + 1e-12);

@@ -41,7 +41,11 @@ pub enum BandError {
 impl BandMatrix {
     /// An n×n zero matrix with half-bandwidth b.
     pub fn zeros(n: usize, b: usize) -> BandMatrix {
-        BandMatrix { n, b, a: vec![0.0; n * (b + 1)] }
+        BandMatrix {
+            n,
+            b,
+            a: vec![0.0; n * (b + 1)],
+        }
     }
     /// Order.
     pub fn n(&self) -> usize {
@@ -59,7 +63,11 @@ impl BandMatrix {
     /// Entry (i, j) of the symmetric matrix (zero outside the band).
     pub fn get(&self, i: usize, j: usize) -> f64 {
         let (i, j) = if i >= j { (i, j) } else { (j, i) };
-        if i - j > self.b { 0.0 } else { self.a[self.idx(i, j)] }
+        if i - j > self.b {
+            0.0
+        } else {
+            self.a[self.idx(i, j)]
+        }
     }
     /// Add `v` to entry (i, j) (and implicitly (j, i)). Only call with i ≥ j
     /// inside the band.
@@ -75,15 +83,18 @@ impl BandMatrix {
     /// y = A·x.
     pub fn mul_vec(&self, x: &[f64], y: &mut [f64]) {
         let (n, b) = (self.n, self.b);
-        y[..n].iter_mut().for_each(|v| *v = 0.0);
-        for i in 0..n {
+        let w = b + 1;
+        let x = &x[..n];
+        let y = &mut y[..n];
+        y.iter_mut().for_each(|v| *v = 0.0);
+        for (i, row) in self.a.chunks_exact(w).enumerate() {
             let j0 = i.saturating_sub(b);
-            let row = &self.a[i * (b + 1)..(i + 1) * (b + 1)];
-            let mut s = row[b] * x[i];
-            for j in j0..i {
-                let aij = row[j + b - i];
-                s += aij * x[j];
-                y[j] += aij * x[i];
+            let band = &row[j0 + b - i..b];
+            let xi = x[i];
+            let mut s = row[b] * xi;
+            for ((aij, xj), yj) in band.iter().zip(&x[j0..i]).zip(y[j0..i].iter_mut()) {
+                s += aij * xj;
+                *yj += aij * xi;
             }
             y[i] += s;
         }
@@ -95,7 +106,9 @@ impl BandMatrix {
     }
     /// Largest absolute diagonal entry.
     pub fn max_diag(&self) -> f64 {
-        (0..self.n).map(|i| self.a[i * (self.b + 1) + self.b].abs()).fold(0.0, f64::max)
+        (0..self.n)
+            .map(|i| self.a[i * (self.b + 1) + self.b].abs())
+            .fold(0.0, f64::max)
     }
     /// Overwrite self with A + s·B (same shape).
     pub fn set_combination(&mut self, a: &BandMatrix, s: f64, bm: &BandMatrix) {
@@ -113,26 +126,37 @@ impl BandMatrix {
         let (n, b) = (self.n, self.b);
         let w = b + 1;
         let mut neg = 0;
-        let mut t = vec![0.0; w];
+        // t[j − j0] = L[i][j]·D[j] for the current row i.
+        let mut t_store = [0.0_f64; 32];
+        let mut t_heap = Vec::new();
+        let t: &mut [f64] = if w <= 32 {
+            &mut t_store[..w]
+        } else {
+            t_heap.resize(w, 0.0);
+            &mut t_heap
+        };
         for i in 0..n {
             let j0 = i.saturating_sub(b);
-            let ri = i * w;
-            let scale = self.a[ri + (j0 + b - i)..ri + w].iter().fold(0.0_f64, |m, x| m.max(x.abs()));
-            // L[i][j] for j < i, using t[j - j0] = L[i][j]·D[j]
-            for j in j0..i {
-                let rj = j * w;
+            let len = i - j0;
+            let (done, rest) = self.a.split_at_mut(i * w);
+            let row = &mut rest[..w];
+            let scale = row[b - len..].iter().fold(0.0_f64, |m, x| m.max(x.abs()));
+            for jj in 0..len {
+                let j = j0 + jj;
+                let rj = &done[j * w..(j + 1) * w];
+                // L[j][k] for k in k0..j sits at rj[k + b − j]
                 let k0 = j0.max(j.saturating_sub(b));
-                let mut s = self.a[ri + (j + b - i)];
-                for k in k0..j {
-                    s -= t[k - j0] * self.a[rj + (k + b - j)];
+                let mut s = row[j + b - i];
+                let lj = &rj[k0 + b - j..b];
+                for (tk, ljk) in t[k0 - j0..jj].iter().zip(lj) {
+                    s -= tk * ljk;
                 }
-                t[j - j0] = s;
-                let dj = self.a[rj + b];
-                self.a[ri + (j + b - i)] = s / dj;
+                t[jj] = s;
+                row[j + b - i] = s / rj[b];
             }
-            let mut d = self.a[ri + b];
-            for j in j0..i {
-                d -= t[j - j0] * self.a[ri + (j + b - i)];
+            let mut d = row[b];
+            for (tk, lik) in t[..len].iter().zip(&row[b - len..b]) {
+                d -= tk * lik;
             }
             if !(d.abs() > rel_tol * scale) {
                 return Err(BandError::ZeroPivot { row: i });
@@ -140,7 +164,7 @@ impl BandMatrix {
             if d < 0.0 {
                 neg += 1;
             }
-            self.a[ri + b] = d;
+            row[b] = d;
         }
         Ok(neg)
     }
@@ -149,24 +173,25 @@ impl BandMatrix {
     pub fn solve_in_place(&self, x: &mut [f64]) {
         let (n, b) = (self.n, self.b);
         let w = b + 1;
-        for i in 0..n {
+        let x = &mut x[..n];
+        for (i, row) in self.a.chunks_exact(w).enumerate() {
             let j0 = i.saturating_sub(b);
-            let ri = i * w;
-            let mut s = x[i];
-            for j in j0..i {
-                s -= self.a[ri + (j + b - i)] * x[j];
+            let (head, tail) = x.split_at_mut(i);
+            let mut s = tail[0];
+            for (l, xj) in row[j0 + b - i..b].iter().zip(&head[j0..]) {
+                s -= l * xj;
             }
-            x[i] = s;
+            tail[0] = s;
         }
-        for i in 0..n {
-            x[i] /= self.a[i * w + b];
+        for (xi, row) in x.iter_mut().zip(self.a.chunks_exact(w)) {
+            *xi /= row[b];
         }
-        for i in (0..n).rev() {
+        for (i, row) in self.a.chunks_exact(w).enumerate().rev() {
             let j0 = i.saturating_sub(b);
-            let ri = i * w;
-            let xi = x[i];
-            for j in j0..i {
-                x[j] -= self.a[ri + (j + b - i)] * xi;
+            let (head, tail) = x.split_at_mut(i);
+            let xi = tail[0];
+            for (l, xj) in row[j0 + b - i..b].iter().zip(head[j0..].iter_mut()) {
+                *xj -= l * xi;
             }
         }
     }
@@ -184,7 +209,11 @@ mod tests {
         let mut d = DMatrix::zeros(n, n);
         for i in 0..n {
             for j in i.saturating_sub(b)..=i {
-                let v = if i == j { 4.0 + (i as f64).sin() - shift } else { ((i * 7 + j * 3) as f64).cos() * 0.6 };
+                let v = if i == j {
+                    4.0 + (i as f64).sin() - shift
+                } else {
+                    ((i * 7 + j * 3) as f64).cos() * 0.6
+                };
                 m.add_lower(i, j, v);
                 d[(i, j)] = v;
                 d[(j, i)] = v;

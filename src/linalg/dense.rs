@@ -31,8 +31,18 @@ pub fn critical_factors(k: &BandMatrix, g: &BandMatrix) -> Option<(Vec<f64>, Vec
     let c = (&c + c.transpose()) * 0.5;
     let eig = c.symmetric_eigen();
     let scale = eig.eigenvalues.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
-    let mut pos: Vec<f64> = eig.eigenvalues.iter().filter(|&&m| m > 1e-13 * scale).map(|m| 1.0 / m).collect();
-    let mut neg: Vec<f64> = eig.eigenvalues.iter().filter(|&&m| m < -1e-13 * scale).map(|m| -1.0 / m).collect();
+    let mut pos: Vec<f64> = eig
+        .eigenvalues
+        .iter()
+        .filter(|&&m| m > 1e-13 * scale)
+        .map(|m| 1.0 / m)
+        .collect();
+    let mut neg: Vec<f64> = eig
+        .eigenvalues
+        .iter()
+        .filter(|&&m| m < -1e-13 * scale)
+        .map(|m| -1.0 / m)
+        .collect();
     pos.sort_by(f64::total_cmp);
     neg.sort_by(f64::total_cmp);
     Some((pos, neg))

@@ -300,7 +300,13 @@ impl Member {
                 };
             }
         }
-        Stiffness { eiz: 1.0, git: 1.0, eiw: ew, eiy: 1.0, beta: self.delta }
+        Stiffness {
+            eiz: 1.0,
+            git: 1.0,
+            eiw: ew,
+            eiy: 1.0,
+            beta: self.delta,
+        }
     }
 
     /// True when every part of the member has no warping stiffness (κ = 0

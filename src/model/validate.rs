@@ -16,11 +16,18 @@ pub struct ModelError {
 }
 
 fn err(field: impl Into<String>, message: impl Into<String>) -> ModelError {
-    ModelError { field: field.into(), message: message.into() }
+    ModelError {
+        field: field.into(),
+        message: message.into(),
+    }
 }
 
 fn finite(field: &str, v: f64) -> Result<(), ModelError> {
-    if v.is_finite() { Ok(()) } else { Err(err(field, format!("must be a finite number, got {v}"))) }
+    if v.is_finite() {
+        Ok(())
+    } else {
+        Err(err(field, format!("must be a finite number, got {v}")))
+    }
 }
 
 fn position(field: &str, v: f64) -> Result<(), ModelError> {
@@ -28,7 +35,9 @@ fn position(field: &str, v: f64) -> Result<(), ModelError> {
     if !(0.0..=1.0).contains(&v) {
         return Err(err(
             field,
-            format!("position {v} lies outside the member; positions are in units of L, from 0 to 1"),
+            format!(
+                "position {v} lies outside the member; positions are in units of L, from 0 to 1"
+            ),
         ));
     }
     Ok(())
@@ -58,7 +67,10 @@ impl Member {
     pub fn validate(&self) -> Result<(), ModelError> {
         finite("kappa", self.kappa)?;
         if self.kappa < 0.0 {
-            return Err(err("kappa", format!("torsion parameter must be ≥ 0, got {}", self.kappa)));
+            return Err(err(
+                "kappa",
+                format!("torsion parameter must be ≥ 0, got {}", self.kappa),
+            ));
         }
         finite("delta", self.delta)?;
         support("start", &self.start)?;
@@ -90,7 +102,10 @@ impl Member {
                 }
             }
             if c.to <= c.from {
-                return Err(err(format!("continuous[{i}].to"), "`to` must be greater than `from`"));
+                return Err(err(
+                    format!("continuous[{i}].to"),
+                    "`to` must be greater than `from`",
+                ));
             }
         }
         let mut segs: Vec<_> = self.segments.iter().enumerate().collect();
@@ -98,24 +113,36 @@ impl Member {
             position(&format!("segment[{i}].from"), s.from)?;
             position(&format!("segment[{i}].to"), s.to)?;
             if s.to <= s.from {
-                return Err(err(format!("segment[{i}].to"), "`to` must be greater than `from`"));
+                return Err(err(
+                    format!("segment[{i}].to"),
+                    "`to` must be greater than `from`",
+                ));
             }
             finite(&format!("segment[{i}].delta"), s.delta)?;
             for (k, v) in [("eiz", s.eiz), ("git", s.git), ("eiy", s.eiy)] {
                 finite(&format!("segment[{i}].{k}"), v)?;
                 if v <= 0.0 {
-                    return Err(err(format!("segment[{i}].{k}"), format!("stiffness ratio must be > 0, got {v}")));
+                    return Err(err(
+                        format!("segment[{i}].{k}"),
+                        format!("stiffness ratio must be > 0, got {v}"),
+                    ));
                 }
             }
             finite(&format!("segment[{i}].eiw"), s.eiw)?;
             if s.eiw < 0.0 {
-                return Err(err(format!("segment[{i}].eiw"), format!("warping stiffness ratio must be ≥ 0, got {}", s.eiw)));
+                return Err(err(
+                    format!("segment[{i}].eiw"),
+                    format!("warping stiffness ratio must be ≥ 0, got {}", s.eiw),
+                ));
             }
         }
         segs.sort_by(|a, b| a.1.from.total_cmp(&b.1.from));
         for w in segs.windows(2) {
             if w[1].1.from < w[0].1.to {
-                return Err(err(format!("segment[{}]", w[1].0), format!("overlaps segment[{}]; segments must not overlap", w[0].0)));
+                return Err(err(
+                    format!("segment[{}]", w[1].0),
+                    format!("overlaps segment[{}]; segments must not overlap", w[0].0),
+                ));
             }
         }
         if let Some(a) = &self.axial {
@@ -138,11 +165,20 @@ impl Member {
                     finite(&format!("load[{i}].zeta"), zeta)?;
                     any |= fz != 0.0;
                 }
-                Load::Distributed { from, to, fz_from, fz_to, zeta } => {
+                Load::Distributed {
+                    from,
+                    to,
+                    fz_from,
+                    fz_to,
+                    zeta,
+                } => {
                     position(&format!("load[{i}].from"), from)?;
                     position(&format!("load[{i}].to"), to)?;
                     if to <= from {
-                        return Err(err(format!("load[{i}].to"), "`to` must be greater than `from`"));
+                        return Err(err(
+                            format!("load[{i}].to"),
+                            "`to` must be greater than `from`",
+                        ));
                     }
                     finite(&format!("load[{i}].value"), fz_from)?;
                     finite(&format!("load[{i}].value_end"), fz_to)?;
@@ -178,7 +214,10 @@ impl Member {
             }
         }
         if !any {
-            return Err(err("load", "all loads are zero (or there are none): give at least one non-zero load"));
+            return Err(err(
+                "load",
+                "all loads are zero (or there are none): give at least one non-zero load",
+            ));
         }
         Ok(())
     }

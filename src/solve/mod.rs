@@ -21,7 +21,7 @@
 //! inertia count of zero at that factor.
 
 use crate::eigen::{self, Inertia, Outcome};
-use crate::fe::assembly::{self, System, NFULL};
+use crate::fe::assembly::{self, NFULL, System};
 use crate::fe::inplane::{self, MomentField};
 use crate::fe::mesh::{self, MeshControls};
 use crate::model::{Member, ModelError, Support};
@@ -30,6 +30,11 @@ use std::f64::consts::PI;
 /// Factors more than this many times the reference critical value count as
 /// "no buckling" (dimensionless: μcr/μ0 > 1000).
 pub const NO_BUCKLING_RATIO: f64 = 1000.0;
+
+/// Floor of the error estimate: the relative accuracy to which a critical
+/// factor can be computed on the finest graded meshes (measured against the
+/// dense path; Rayleigh quotients of stiff small elements lose digits).
+pub const ROUND_OFF: f64 = 1e-7;
 
 /// Solver settings.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -46,7 +51,12 @@ pub struct Settings {
 
 impl Default for Settings {
     fn default() -> Self {
-        Settings { tolerance: 1e-4, max_level: 6, mesh: MeshControls::default(), reversed: false }
+        Settings {
+            tolerance: 1e-4,
+            max_level: 6,
+            mesh: MeshControls::default(),
+            reversed: false,
+        }
     }
 }
 
@@ -145,7 +155,9 @@ pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
     let m_max = mf.max_abs();
     let mu0 = PI * (1.0 + m.kappa * m.kappa).sqrt();
     if m.kappa == 0.0 && warping_restrained(m) {
-        notes.push("κ = 0: the section has no warping stiffness, so warping restraints are ignored".into());
+        notes.push(
+            "κ = 0: the section has no warping stiffness, so warping restraints are ignored".into(),
+        );
     }
     let n_ax = m.axial.map(|a| a.n).unwrap_or(0.0);
     let limit = if m_max.0 > 0.0 {
@@ -162,8 +174,19 @@ pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
         &s.mesh,
     );
     let forward = direction(m, &mf, &base, s, limit, 1.0)?;
-    let reversed = if s.reversed { Some(direction(m, &mf, &base, s, limit, -1.0)?) } else { None };
-    Ok(Solution { forward, reversed, m_max, mu0, moments: mf, notes })
+    let reversed = if s.reversed {
+        Some(direction(m, &mf, &base, s, limit, -1.0)?)
+    } else {
+        None
+    };
+    Ok(Solution {
+        forward,
+        reversed,
+        m_max,
+        mu0,
+        moments: mf,
+        notes,
+    })
 }
 
 fn warping_restrained(m: &Member) -> bool {
@@ -171,12 +194,21 @@ fn warping_restrained(m: &Member) -> bool {
     w(&m.start) || w(&m.end) || m.supports.iter().any(|s| w(&s.support))
 }
 
-fn direction(m: &Member, mf: &MomentField, base: &[f64], s: &Settings, limit: f64, sign: f64) -> Result<Direction, SolveError> {
-    let opt = eigen::Options { limit, ..Default::default() };
+fn direction(
+    m: &Member,
+    mf: &MomentField,
+    base: &[f64],
+    s: &Settings,
+    limit: f64,
+    sign: f64,
+) -> Result<Direction, SolveError> {
     let mut history = Vec::new();
+    // (factor, system, mode) of the previous level
     let mut prev: Option<(f64, System, Vec<f64>)> = None;
+    let mut prev_ro = 0.0_f64;
+    let mut level = 0;
     let mut no_buckling_levels = 0;
-    for level in 0..=s.max_level {
+    while level <= s.max_level {
         let x = mesh::refine(base, level);
         let mut sys = assembly::assemble(m, &x, mf);
         if sign < 0.0 {
@@ -184,11 +216,22 @@ fn direction(m: &Member, mf: &MomentField, base: &[f64], s: &Settings, limit: f6
         }
         let start = prev.as_ref().map(|(l, ps, v)| {
             let full = ps.expand(v);
-            let fine: Vec<[f64; NFULL]> = sys.x.iter().map(|&xq| ps.interpolate(&full, xq)).collect();
+            let fine: Vec<[f64; NFULL]> =
+                sys.x.iter().map(|&xq| ps.interpolate(&full, xq)).collect();
             (*l, sys.restrict(&fine))
         });
+        // Intermediate levels only feed the estimate; the level that meets
+        // the tolerance (or the last) is solved again with the proof.
+        let opt = eigen::Options {
+            limit,
+            prove: level == s.max_level,
+            check_k: level == 0,
+            ..Default::default()
+        };
         let out = eigen::lowest_positive(&sys.k, &sys.g, start, &opt).map_err(|e| match e {
-            eigen::EigenError::Mechanism { row } => SolveError::Mechanism(mechanism_message(m, &sys, row)),
+            eigen::EigenError::Mechanism { row } => {
+                SolveError::Mechanism(mechanism_message(m, &sys, row))
+            }
             other => SolveError::Eigen(other.to_string()),
         })?;
         match out {
@@ -207,31 +250,143 @@ fn direction(m: &Member, mf: &MomentField, base: &[f64], s: &Settings, limit: f6
                     });
                 }
                 prev = None;
+                level += 1;
             }
-            Outcome::Critical { lambda, mode, inertia } => {
+            Outcome::Critical {
+                lambda,
+                mode,
+                inertia,
+                round_off,
+            } => {
+                let lp = prev.as_ref().map(|p| p.0);
                 history.push((sys.elements(), lambda));
-                if let Some((lp, _, _)) = &prev {
-                    let est = ((lp - lambda) / lambda).abs().max(1e-12);
-                    if est <= s.tolerance || level == s.max_level {
-                        let status = if est <= s.tolerance { Status::Ok } else { Status::NotConverged };
-                        let mode = Some(mode_shape(&sys, &mode));
-                        return Ok(Direction {
-                            status,
-                            load_factor: Some(lambda),
-                            mu_cr: if mf.max_abs().0 > 0.0 { Some(lambda * mf.max_abs().0) } else { None },
-                            error_estimate: est,
-                            elements: sys.elements(),
-                            inertia,
-                            history,
-                            mode,
-                        });
+                if let Some(lp) = lp {
+                    let ro = round_off.max(prev_ro).max(ROUND_OFF);
+                    let diff = ((lp - lambda) / lambda).abs();
+                    let est = diff.max(ro);
+                    // Refining further cannot help once round-off dominates.
+                    let stuck = diff < 2.0 * ro && ro > s.tolerance;
+                    if est <= s.tolerance || level == s.max_level || stuck {
+                        if opt.prove {
+                            return Ok(finish(
+                                est,
+                                s.tolerance,
+                                lambda,
+                                mf,
+                                &sys,
+                                &mode,
+                                inertia,
+                                history,
+                            ));
+                        }
+                        // Prove this level's factor lowest, starting from its own mode.
+                        let popt = eigen::Options {
+                            limit,
+                            prove: true,
+                            check_k: false,
+                            ..Default::default()
+                        };
+                        let proved =
+                            eigen::lowest_positive(&sys.k, &sys.g, Some((lambda, mode)), &popt)
+                                .map_err(|e| SolveError::Eigen(e.to_string()))?;
+                        match proved {
+                            Outcome::Critical {
+                                lambda: lp2,
+                                mode: m2,
+                                inertia: i2,
+                                round_off: ro2,
+                            } => {
+                                if (lp2 - lambda).abs() <= (1e-6_f64).max(4.0 * ro2) * lambda {
+                                    let est = ((lp - lp2) / lp2).abs().max(ro.max(ro2));
+                                    return Ok(finish(
+                                        est,
+                                        s.tolerance,
+                                        lp2,
+                                        mf,
+                                        &sys,
+                                        &m2,
+                                        i2,
+                                        history,
+                                    ));
+                                }
+                                // A lower factor than the estimate was built on:
+                                // refine further from the proven mode.
+                                history.pop();
+                                history.push((sys.elements(), lp2));
+                                if level == s.max_level {
+                                    return Ok(finish(
+                                        1.0,
+                                        s.tolerance,
+                                        lp2,
+                                        mf,
+                                        &sys,
+                                        &m2,
+                                        i2,
+                                        history,
+                                    ));
+                                }
+                                prev = Some((lp2, sys, m2));
+                                prev_ro = ro2;
+                                level += 1;
+                                continue;
+                            }
+                            Outcome::NoBuckling { inertia, .. } => {
+                                return Ok(Direction {
+                                    status: Status::NoBuckling,
+                                    load_factor: None,
+                                    mu_cr: None,
+                                    error_estimate: 0.0,
+                                    elements: sys.elements(),
+                                    inertia,
+                                    history,
+                                    mode: None,
+                                });
+                            }
+                        }
                     }
                 }
                 prev = Some((lambda, sys, mode));
+                prev_ro = round_off;
+                level += 1;
             }
         }
     }
-    Err(SolveError::Eigen("refinement ended without a result".into()))
+    Err(SolveError::Eigen(
+        "refinement ended without a result".into(),
+    ))
+}
+
+#[allow(clippy::too_many_arguments)]
+fn finish(
+    est: f64,
+    tol: f64,
+    lambda: f64,
+    mf: &MomentField,
+    sys: &System,
+    mode: &[f64],
+    inertia: Vec<Inertia>,
+    history: Vec<(usize, f64)>,
+) -> Direction {
+    let status = if est <= tol {
+        Status::Ok
+    } else {
+        Status::NotConverged
+    };
+    let mmax = mf.max_abs().0;
+    Direction {
+        status,
+        load_factor: Some(lambda),
+        mu_cr: if mmax > 0.0 {
+            Some(lambda * mmax)
+        } else {
+            None
+        },
+        error_estimate: est,
+        elements: sys.elements(),
+        inertia,
+        history,
+        mode: Some(mode_shape(sys, mode)),
+    }
 }
 
 fn negate(g: &crate::linalg::band::BandMatrix) -> crate::linalg::band::BandMatrix {
@@ -244,10 +399,18 @@ fn mode_shape(sys: &System, red: &[f64]) -> Mode {
     let full = sys.expand(red);
     let mut v: Vec<f64> = full.iter().map(|f| f[0]).collect();
     let mut phi: Vec<f64> = full.iter().map(|f| f[2]).collect();
-    let pick = |a: &[f64]| a.iter().copied().fold(0.0_f64, |m, x| if x.abs() > m.abs() { x } else { m });
+    let pick = |a: &[f64]| {
+        a.iter()
+            .copied()
+            .fold(0.0_f64, |m, x| if x.abs() > m.abs() { x } else { m })
+    };
     let pmax = pick(&phi);
     let vmax = pick(&v);
-    let norm = if pmax.abs() > 1e-9 * vmax.abs() { pmax } else { vmax };
+    let norm = if pmax.abs() > 1e-9 * vmax.abs() {
+        pmax
+    } else {
+        vmax
+    };
     if norm != 0.0 {
         v.iter_mut().for_each(|x| *x /= norm);
         phi.iter_mut().for_each(|x| *x /= norm);
@@ -259,19 +422,33 @@ fn mode_shape(sys: &System, red: &[f64]) -> Mode {
     };
     v.iter_mut().for_each(clean);
     phi.iter_mut().for_each(clean);
-    Mode { x: sys.x.clone(), v, phi }
+    Mode {
+        x: sys.x.clone(),
+        v,
+        phi,
+    }
 }
 
 /// Describe an out-of-plane mechanism from the null vector of K.
 fn mechanism_message(m: &Member, sys: &System, _row: usize) -> String {
     let kd = crate::linalg::dense::to_dense(&sys.k);
     let eig = kd.symmetric_eigen();
-    let (imin, _) = eig.eigenvalues.iter().enumerate().fold((0, f64::INFINITY), |b, (i, &v)| if v < b.1 { (i, v) } else { b });
+    let (imin, _) = eig
+        .eigenvalues
+        .iter()
+        .enumerate()
+        .fold(
+            (0, f64::INFINITY),
+            |b, (i, &v)| if v < b.1 { (i, v) } else { b },
+        );
     let vec: Vec<f64> = eig.eigenvectors.column(imin).iter().copied().collect();
     let full = sys.expand(&vec);
     let vmax = full.iter().fold(0.0_f64, |a, f| a.max(f[0].abs()));
     let pmax = full.iter().fold(0.0_f64, |a, f| a.max(f[2].abs()));
-    let lateral_support = [m.start, m.end].iter().chain(m.supports.iter().map(|s| &s.support)).any(|s| !s.lateral.is_free())
+    let lateral_support = [m.start, m.end]
+        .iter()
+        .chain(m.supports.iter().map(|s| &s.support))
+        .any(|s| !s.lateral.is_free())
         || m.restraints.iter().any(|r| !r.lateral.is_free());
     let what = if pmax > vmax {
         "it can twist about its own axis without resistance: hold `twist` at a support (preset \"fork\" or \"built-in\"), \

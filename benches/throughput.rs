@@ -1,0 +1,129 @@
+//! Throughput benchmark of the critical-moment engine: converged solves per
+//! second on one thread, each solve doing its own error estimate and inertia
+//! proof, over a fixed pseudo-random set of distinct cases (no cache, no warm
+//! start from another case). Prints its figures; run with
+//! `cargo bench --bench throughput`. Under `cargo test` it returns at once.
+
+use ltb_atlas::model::{Load, Member, Support};
+use ltb_atlas::solve::{Settings, Status, solve};
+use std::time::Instant;
+
+/// Small deterministic generator (64-bit LCG, Knuth's MMIX constants).
+struct Lcg(u64);
+impl Lcg {
+    fn next(&mut self) -> f64 {
+        self.0 = self
+            .0
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        (self.0 >> 11) as f64 / (1u64 << 53) as f64
+    }
+}
+
+fn log_uniform(r: &mut Lcg, lo: f64, hi: f64) -> f64 {
+    (lo.ln() + r.next() * (hi.ln() - lo.ln())).exp()
+}
+
+pub fn mix(n: usize) -> Vec<Member> {
+    let mut r = Lcg(20261201);
+    (0..n)
+        .map(|i| {
+            let kappa = log_uniform(&mut r, 0.05, 5.0);
+            let zeta = -1.0 + 2.0 * r.next();
+            let point = r.next() < 0.5;
+            if i % 2 == 0 {
+                let m = Member::new(kappa, Support::BUILT_IN, Support::FREE);
+                if point {
+                    m.with_load(Load::Point {
+                        at: 1.0,
+                        fz: -1.0,
+                        zeta,
+                    })
+                } else {
+                    m.with_load(Load::Distributed {
+                        from: 0.0,
+                        to: 1.0,
+                        fz_from: -1.0,
+                        fz_to: -1.0,
+                        zeta,
+                    })
+                }
+            } else {
+                let m = Member::new(kappa, Support::FORK, Support::FORK);
+                if point {
+                    m.with_load(Load::Point {
+                        at: 0.5,
+                        fz: -1.0,
+                        zeta,
+                    })
+                } else {
+                    m.with_load(Load::Distributed {
+                        from: 0.0,
+                        to: 1.0,
+                        fz_from: -1.0,
+                        fz_to: -1.0,
+                        zeta,
+                    })
+                }
+            }
+        })
+        .collect()
+}
+
+pub fn cantilever_tip(n: usize) -> Vec<Member> {
+    let mut r = Lcg(4100);
+    (0..n)
+        .map(|_| {
+            let kappa = log_uniform(&mut r, 0.3, 3.0);
+            let zeta = -1.0 + 2.0 * r.next();
+            Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
+                at: 1.0,
+                fz: -1.0,
+                zeta,
+            })
+        })
+        .collect()
+}
+
+fn run(name: &str, cases: &[Member]) {
+    let s = Settings::default();
+    let t = Instant::now();
+    let mut est_sum = 0.0;
+    let mut est_max: f64 = 0.0;
+    let mut elements = 0usize;
+    let mut not_ok = 0;
+    for m in cases {
+        let r = solve(m, &s).expect("benchmark case must solve");
+        if r.forward.status != Status::Ok {
+            not_ok += 1;
+        }
+        est_sum += r.forward.error_estimate;
+        est_max = est_max.max(r.forward.error_estimate);
+        elements += r.forward.elements;
+    }
+    let dt = t.elapsed().as_secs_f64();
+    println!(
+        "{name:<34} {:>7} solves  {:>9.0} solves/s  {:>6.2} µs/solve  mean est {:.2e}  worst est {:.2e}  mean elements {:.1}  not ok {not_ok}",
+        cases.len(),
+        cases.len() as f64 / dt,
+        1e6 * dt / cases.len() as f64,
+        est_sum / cases.len() as f64,
+        est_max,
+        elements as f64 / cases.len() as f64,
+    );
+}
+
+fn main() {
+    if !std::env::args().any(|a| a == "--bench") {
+        return; // `cargo test` runs bench targets without --bench: return at once
+    }
+    let n: usize = std::env::var("LTB_BENCH_CASES")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(20000);
+    println!(
+        "one thread; tolerance 1e-4; each solve estimates its error and proves its factor by inertia"
+    );
+    run("mix (cantilever + simple span)", &mix(n));
+    run("built-in cantilever, tip load", &cantilever_tip(n));
+}
