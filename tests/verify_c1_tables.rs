@@ -28,10 +28,10 @@
 //! Tolerances: C1 within 0.3 % (reference-values §3: Table 3.1 equals the κ → 0 limit within 0.2 %,
 //! Table 3.2 within 0.3 %; 0.2 % is also half a unit of Table 3.1's two decimals at C1 ≈ 2.5). C2
 //! within 1 % (reference-values §3). All solves at tolerance 1e-6 so that the solver's own error
-//! (≤ 1e-6 by its estimate) is negligible against these bands.
+//! (estimate ≤ 1e-5 required) is negligible against these bands.
 
 use ltb_atlas::model::{Fixity, Load, Member, Support};
-use ltb_atlas::solve::{Settings, Status, solve};
+use ltb_atlas::solve::{Direction, Settings, Status, solve};
 use std::f64::consts::PI;
 
 fn settings() -> Settings {
@@ -43,8 +43,19 @@ fn settings() -> Settings {
 
 fn mu_cr(m: &Member) -> f64 {
     let s = solve(m, &settings()).unwrap_or_else(|e| panic!("solve failed: {e}\n  member {m:?}"));
-    assert_eq!(s.forward.status, Status::Ok, "not converged: {m:?}");
+    assert!(
+        certified(&s.forward),
+        "{:?}, estimate {:.1e}: {m:?}",
+        s.forward.status,
+        s.forward.error_estimate
+    );
     s.forward.mu_cr.expect("buckles")
+}
+
+/// Good enough for the 0.3 % / 1 % bands: a factor with an estimate ≤ 1e-5 (status Ok, or
+/// not-converged where the 1e-6 request is below the solver's round-off level).
+fn certified(d: &Direction) -> bool {
+    d.load_factor.is_some() && d.status != Status::NoBuckling && d.error_estimate <= 1e-5
 }
 
 fn mu0(kappa: f64) -> f64 {
@@ -193,7 +204,11 @@ fn c1_transverse_loads_table_3_2_small_kappa() {
         for (m, c1_pub, m_max, label) in cases {
             let s = solve(&m, &settings())
                 .unwrap_or_else(|e| panic!("solve failed: {e}\n  member {m:?}"));
-            assert_eq!(s.forward.status, Status::Ok, "{label}, κ = {kappa}");
+            assert!(
+                certified(&s.forward),
+                "{label}, κ = {kappa}: {:?}",
+                s.forward.status
+            );
             // Largest |M| under the unit load: statics / standard beam tables (qL²/8, PL/4, qL²/12, PL/8).
             assert!(
                 (s.m_max.0 - m_max).abs() <= 1e-12,

@@ -21,16 +21,18 @@
 //!   cantilever, tip point          ¦============v          ζ grid, root warping free
 //! ```
 //!
-//! Reference: the brief asks for Settings{tolerance: 1e-9, max_level: 9}. That request is below the
-//! certified floor of the solver (`solve::ROUND_OFF`), so the reference used for the true error is
-//! the first of tolerance 1e-9, 1e-8, 1e-7, 1e-6 (max_level 9) that returns status Ok, and it
-//! must be at least 10× tighter than the estimate it judges (its own estimate ≤ 10 % of the default
-//! solve's). The summary also prints the conservative ratio (|true| + reference estimate)/estimate.
-//! A separate test asserts that the 1e-9 / level-9 request itself returns a result rather than an
-//! error.
+//! Reference: each member solved with Settings{tolerance: 1e-9, max_level: 9} on three mesh
+//! families (default controls; grading started at 2 layer widths; uniform h = 1/16 without
+//! grading). The solver's estimate includes its own round-off level, so a 1e-9 request ends
+//! not-converged once round-off dominates; the reference is the candidate with the smallest
+//! estimate, and it must be at least 10× tighter than the estimate it judges (its own estimate
+//! ≤ 10 % of the default solve's), else the case counts as a failure ("unverifiable"). The summary
+//! also prints the conservative ratio (|true| + reference estimate)/estimate. A separate test
+//! asserts that the 1e-9 / level-9 request itself returns a result rather than an error.
 //!
 //! Tolerance: true error ≤ estimate exactly (no slack), estimate ≤ 1e-4.
 
+use ltb_atlas::fe::mesh::MeshControls;
 use ltb_atlas::model::{Fixity, Load, Member, Support};
 use ltb_atlas::solve::{Direction, Settings, Status, solve};
 
@@ -140,16 +142,47 @@ fn reference_settings(tolerance: f64) -> Settings {
     }
 }
 
-/// First reference (tolerance 1e-9, 1e-8, 1e-7, 1e-6; max_level 9) with status Ok.
-fn reference(m: &Member) -> Option<(f64, Direction)> {
-    for tol in [1e-9, 1e-8, 1e-7, 1e-6] {
-        if let Ok(s) = solve(m, &reference_settings(tol)) {
-            if s.forward.status == Status::Ok {
-                return Some((tol, s.forward));
+/// Reference candidates: tolerance 1e-9, max_level 9, on three mesh families; the one with the
+/// smallest estimate (any status with a factor), with its family's name.
+fn reference(m: &Member) -> Option<(&'static str, Direction)> {
+    let families = [
+        ("default mesh", MeshControls::default()),
+        (
+            "grading from 2 layer widths",
+            MeshControls {
+                first: 2.0,
+                ..Default::default()
+            },
+        ),
+        (
+            "uniform h = 1/16",
+            MeshControls {
+                h_max: 1.0 / 16.0,
+                first: 1e6,
+                ..Default::default()
+            },
+        ),
+    ];
+    let mut best: Option<(&'static str, Direction)> = None;
+    for (name, mesh) in families {
+        if let Ok(s) = solve(
+            m,
+            &Settings {
+                mesh,
+                ..reference_settings(1e-9)
+            },
+        ) {
+            let d = s.forward;
+            if d.load_factor.is_some()
+                && best
+                    .as_ref()
+                    .is_none_or(|b| d.error_estimate < b.1.error_estimate)
+            {
+                best = Some((name, d));
             }
         }
     }
-    None
+    best
 }
 
 /// Run `f` over the grid on two threads (the suite's budget is two cores).
@@ -197,16 +230,14 @@ fn error_estimate_bounds_the_true_error() {
             ));
             continue;
         }
-        let Some((rtol, rd)) = r else {
-            failures.push(format!(
-                "{tag}: no reference converged (tolerance 1e-9 … 1e-6, max_level 9)"
-            ));
+        let Some((rname, rd)) = r else {
+            failures.push(format!("{tag}: no reference solve returned a factor"));
             continue;
         };
         let (l, lr) = (d.load_factor.unwrap(), rd.load_factor.unwrap());
         if rd.error_estimate > 0.1 * d.error_estimate {
             failures.push(format!(
-                "{tag}: reference (tolerance {rtol:e}) estimate {:.2e} is not 10× below the default estimate {:.2e}",
+                "{tag}: unverifiable: best reference ({rname}) estimate {:.2e} is not 10× below the default estimate {:.2e}",
                 rd.error_estimate, d.error_estimate
             ));
             continue;
@@ -229,7 +260,7 @@ fn error_estimate_bounds_the_true_error() {
         }
         // Solve module docs: the estimate bounds the true relative error.
         if true_err.abs() > d.error_estimate {
-            failures.push(format!("{tag}: true error {true_err:.3e} > estimate {:.3e} (λ = {l}, reference {lr} at tolerance {rtol:e})", d.error_estimate));
+            failures.push(format!("{tag}: true error {true_err:.3e} > estimate {:.3e} (λ = {l}, reference {lr} on {rname})", d.error_estimate));
         }
         // Domain notes: conforming element → the discrete factor is an upper bound; the reference
         // is finer, so the default value must not lie below it beyond the reference's estimate.
@@ -262,7 +293,7 @@ fn error_estimate_bounds_the_true_error() {
 
 #[test]
 fn tight_reference_request_returns_a_result() {
-    // The brief's reference request, tolerance 1e-9 with max_level 9, must end in a result
+    // The reference request, tolerance 1e-9 with max_level 9 on the default mesh, must end in a result
     // (status Ok or NotConverged with an estimate), never in a solver error. Common practice,
     // no source: an unattainable tolerance is reported, not failed.
     let cases = grid();

@@ -62,7 +62,11 @@ fn pure_tension_does_not_buckle() {
         // Reversed: compression N̄ = 1 per unit factor. Euler π² when flexure governs (ζc = 0 and a
         // torsional load π²(1+κ²)/rho² ≥ π²); otherwise lower.
         let r = s.reversed.expect("reversed asked");
-        assert_eq!(r.status, Status::Ok);
+        assert!(
+            r.status != Status::NoBuckling && r.error_estimate <= 1e-6,
+            "{:?}",
+            r.status
+        );
         let lr = r.load_factor.unwrap();
         if zc == 0.0 {
             // Timoshenko & Gere 1961 ch. 2, Euler load π² (κ and rho as looped; torsional load

@@ -51,8 +51,21 @@ pub struct System {
     pub g: BandMatrix,
 }
 
+/// The basis of a node whose only constraint is warping continuity
+/// (φ'₋ = φ'₊): reduced DOFs [v, v', φ, φ'].
+const TIED: [[f64; NFULL]; NFULL] = [
+    [1.0, 0.0, 0.0, 0.0, 0.0],
+    [0.0, 1.0, 0.0, 0.0, 0.0],
+    [0.0, 0.0, 1.0, 0.0, 0.0],
+    [0.0, 0.0, 0.0, 1.0, 0.0],
+    [0.0, 0.0, 0.0, 1.0, 0.0],
+];
+
 /// Row echelon null-space basis of constraint rows over `NFULL` unknowns.
 fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
+    if rows.len() == 1 && rows[0] == [0.0, 0.0, 0.0, 1.0, -1.0] {
+        return (TIED, 4);
+    }
     let mut a: Vec<[f64; NFULL]> = rows.to_vec();
     let mut pivots: Vec<(usize, usize)> = Vec::new(); // (row, col)
     let mut row = 0;

@@ -34,7 +34,7 @@ pub const NO_BUCKLING_RATIO: f64 = 1000.0;
 /// Floor of the error estimate: the relative accuracy to which a critical
 /// factor can be computed on the finest graded meshes (measured against the
 /// dense path; Rayleigh quotients of stiff small elements lose digits).
-pub const ROUND_OFF: f64 = 1e-7;
+pub const ROUND_OFF: f64 = 1e-14;
 
 /// Solver settings.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -202,154 +202,133 @@ fn direction(
     limit: f64,
     sign: f64,
 ) -> Result<Direction, SolveError> {
-    let mut history = Vec::new();
-    // (factor, system, mode) of the previous level
-    let mut prev: Option<(f64, System, Vec<f64>)> = None;
-    let mut prev_ro = 0.0_f64;
-    let mut level = 0;
+    let mut history: Vec<(usize, f64)> = Vec::new();
+    // (factor, relative round-off, system, mode) of the previous level
+    let mut prev: Option<(f64, f64, System, Vec<f64>)> = None;
     let mut no_buckling_levels = 0;
+    let eigen_err = |e: eigen::EigenError, sys: &System| match e {
+        eigen::EigenError::Mechanism { row } => {
+            SolveError::Mechanism(mechanism_message(m, sys, row))
+        }
+        other => SolveError::Eigen(other.to_string()),
+    };
+    let no_buckling = |inertia: Vec<Inertia>, sys: &System, history: Vec<(usize, f64)>| Direction {
+        status: Status::NoBuckling,
+        load_factor: None,
+        mu_cr: None,
+        error_estimate: 0.0,
+        elements: sys.elements(),
+        inertia,
+        history,
+        mode: None,
+    };
+    let mut level = 0;
     while level <= s.max_level {
         let x = mesh::refine(base, level);
         let mut sys = assembly::assemble(m, &x, mf);
         if sign < 0.0 {
             sys.g = negate(&sys.g);
         }
-        let start = prev.as_ref().map(|(l, ps, v)| {
+        let start = prev.as_ref().map(|(l, _, ps, v)| {
             let full = ps.expand(v);
             let fine: Vec<[f64; NFULL]> =
                 sys.x.iter().map(|&xq| ps.interpolate(&full, xq)).collect();
             (*l, sys.restrict(&fine))
         });
-        // Intermediate levels only feed the estimate; the level that meets
-        // the tolerance (or the last) is solved again with the proof.
+        // Intermediate levels only feed the estimate; the reported level is
+        // proven afterwards.
         let opt = eigen::Options {
             limit,
-            prove: level == s.max_level,
+            prove: false,
             check_k: level == 0,
             ..Default::default()
         };
-        let out = eigen::lowest_positive(&sys.k, &sys.g, start, &opt).map_err(|e| match e {
-            eigen::EigenError::Mechanism { row } => {
-                SolveError::Mechanism(mechanism_message(m, &sys, row))
-            }
-            other => SolveError::Eigen(other.to_string()),
-        })?;
-        match out {
+        let out =
+            eigen::lowest_positive(&sys.k, &sys.g, start, &opt).map_err(|e| eigen_err(e, &sys))?;
+        let (lambda, mode, round_off) = match out {
             Outcome::NoBuckling { inertia, .. } => {
                 no_buckling_levels += 1;
                 if no_buckling_levels >= 2 || level == s.max_level {
-                    return Ok(Direction {
-                        status: Status::NoBuckling,
-                        load_factor: None,
-                        mu_cr: None,
-                        error_estimate: 0.0,
-                        elements: sys.elements(),
-                        inertia,
-                        history,
-                        mode: None,
-                    });
+                    return Ok(no_buckling(inertia, &sys, history));
                 }
                 prev = None;
                 level += 1;
+                continue;
             }
             Outcome::Critical {
                 lambda,
                 mode,
-                inertia,
                 round_off,
-            } => {
-                let lp = prev.as_ref().map(|p| p.0);
-                history.push((sys.elements(), lambda));
-                if let Some(lp) = lp {
-                    let ro = round_off.max(prev_ro).max(ROUND_OFF);
-                    let diff = ((lp - lambda) / lambda).abs();
-                    let est = diff.max(ro);
-                    // Refining further cannot help once round-off dominates.
-                    let stuck = diff < 2.0 * ro && ro > s.tolerance;
-                    if est <= s.tolerance || level == s.max_level || stuck {
-                        if opt.prove {
-                            return Ok(finish(
-                                est,
-                                s.tolerance,
-                                lambda,
-                                mf,
-                                &sys,
-                                &mode,
-                                inertia,
-                                history,
-                            ));
-                        }
-                        // Prove this level's factor lowest, starting from its own mode.
-                        let popt = eigen::Options {
-                            limit,
-                            prove: true,
-                            check_k: false,
-                            ..Default::default()
-                        };
-                        let proved =
-                            eigen::lowest_positive(&sys.k, &sys.g, Some((lambda, mode)), &popt)
-                                .map_err(|e| SolveError::Eigen(e.to_string()))?;
-                        match proved {
-                            Outcome::Critical {
-                                lambda: lp2,
-                                mode: m2,
-                                inertia: i2,
-                                round_off: ro2,
-                            } => {
-                                if (lp2 - lambda).abs() <= (1e-6_f64).max(4.0 * ro2) * lambda {
-                                    let est = ((lp - lp2) / lp2).abs().max(ro.max(ro2));
-                                    return Ok(finish(
-                                        est,
-                                        s.tolerance,
-                                        lp2,
-                                        mf,
-                                        &sys,
-                                        &m2,
-                                        i2,
-                                        history,
-                                    ));
-                                }
-                                // A lower factor than the estimate was built on:
-                                // refine further from the proven mode.
-                                history.pop();
-                                history.push((sys.elements(), lp2));
-                                if level == s.max_level {
-                                    return Ok(finish(
-                                        1.0,
-                                        s.tolerance,
-                                        lp2,
-                                        mf,
-                                        &sys,
-                                        &m2,
-                                        i2,
-                                        history,
-                                    ));
-                                }
-                                prev = Some((lp2, sys, m2));
-                                prev_ro = ro2;
-                                level += 1;
-                                continue;
-                            }
-                            Outcome::NoBuckling { inertia, .. } => {
-                                return Ok(Direction {
-                                    status: Status::NoBuckling,
-                                    load_factor: None,
-                                    mu_cr: None,
-                                    error_estimate: 0.0,
-                                    elements: sys.elements(),
-                                    inertia,
-                                    history,
-                                    mode: None,
-                                });
-                            }
-                        }
-                    }
+                ..
+            } => (lambda, mode, round_off),
+        };
+        history.push((sys.elements(), lambda));
+        // Estimate against the previous level (none on the first: unknown).
+        let (est, stuck) = match &prev {
+            Some((lp, prev_ro, _, _)) => {
+                let ro = round_off.max(*prev_ro).max(ROUND_OFF);
+                let diff = ((lp - lambda) / lambda).abs();
+                // Refining further cannot help once round-off dominates.
+                (diff.max(ro), diff < 2.0 * ro && ro > s.tolerance)
+            }
+            None => (1.0, false),
+        };
+        let last = level == s.max_level;
+        if (prev.is_some() && est <= s.tolerance) || stuck || last {
+            // Prove the reported factor lowest on this mesh.
+            let popt = eigen::Options {
+                limit,
+                prove: true,
+                check_k: false,
+                ..Default::default()
+            };
+            if let Some(inertia) = eigen::prove(&sys.k, &sys.g, lambda, &mode, &popt) {
+                return Ok(finish(
+                    est,
+                    s.tolerance,
+                    lambda,
+                    mf,
+                    &sys,
+                    &mode,
+                    inertia,
+                    history,
+                ));
+            }
+            // The counts do not bracket it: search this mesh properly.
+            match eigen::lowest_positive(&sys.k, &sys.g, Some((lambda, mode)), &popt)
+                .map_err(|e| eigen_err(e, &sys))?
+            {
+                Outcome::NoBuckling { inertia, .. } => {
+                    return Ok(no_buckling(inertia, &sys, history));
                 }
-                prev = Some((lambda, sys, mode));
-                prev_ro = round_off;
-                level += 1;
+                Outcome::Critical {
+                    lambda: l2,
+                    mode: m2,
+                    inertia: i2,
+                    round_off: r2,
+                } => {
+                    history.pop();
+                    history.push((sys.elements(), l2));
+                    let same = (l2 - lambda).abs() <= (1e-6_f64).max(4.0 * r2) * lambda;
+                    if same || last {
+                        let est = match (&prev, same) {
+                            (Some((lp, pr, _, _)), true) => {
+                                ((lp - l2) / l2).abs().max(r2.max(*pr)).max(ROUND_OFF)
+                            }
+                            _ => 1.0,
+                        };
+                        return Ok(finish(est, s.tolerance, l2, mf, &sys, &m2, i2, history));
+                    }
+                    // A lower factor than the estimate was built on: refine
+                    // further from the proven mode.
+                    prev = Some((l2, r2, sys, m2));
+                    level += 1;
+                    continue;
+                }
             }
         }
+        prev = Some((lambda, round_off, sys, mode));
+        level += 1;
     }
     Err(SolveError::Eigen(
         "refinement ended without a result".into(),
