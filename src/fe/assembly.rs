@@ -36,6 +36,26 @@ pub struct NodeDofs {
     pub r: usize,
     /// full[f] = Σ_c t[f][c] · reduced[offset + c].
     pub t: [[f64; NFULL]; NFULL],
+    /// When every full DOF is either held (None) or equal to one reduced DOF
+    /// (coefficient 1), that reduced DOF: the fast path of the scatter.
+    pub sel: Option<[Option<u8>; NFULL]>,
+}
+
+fn selection(t: &[[f64; NFULL]; NFULL], r: usize) -> Option<[Option<u8>; NFULL]> {
+    let mut sel = [None; NFULL];
+    for f in 0..NFULL {
+        for c in 0..r {
+            let v = t[f][c];
+            if v == 0.0 {
+                continue;
+            }
+            if v != 1.0 || sel[f].is_some() {
+                return None;
+            }
+            sel[f] = Some(c as u8);
+        }
+    }
+    Some(sel)
 }
 
 /// The assembled eigenproblem (K + λ·Kg)·x = 0 on one mesh.
@@ -245,7 +265,7 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         }
         // At the ends one warping DOF is unused: tie it as well.
         let (t, r) = null_space(&a.rows);
-        dofs.push(NodeDofs { offset: off, r, t });
+        dofs.push(NodeDofs { offset: off, r, t, sel: selection(&t, r) });
         off += r;
     }
     let n = off;
@@ -372,6 +392,14 @@ impl System {
     pub fn restrict(&self, full: &[[f64; NFULL]]) -> Vec<f64> {
         let mut out = vec![0.0; self.n()];
         for (d, f) in self.dofs.iter().zip(full) {
+            if let Some(sel) = d.sel {
+                for (fi, c) in sel.iter().enumerate() {
+                    if let Some(c) = c {
+                        out[d.offset + *c as usize] = f[fi];
+                    }
+                }
+                continue;
+            }
             // Normal equations (TᵀT)·r = Tᵀ·f, at most 5×5, by Gauss–Jordan.
             let r = d.r;
             let mut a = [[0.0; NFULL + 1]; NFULL];

@@ -82,6 +82,15 @@ impl BandMatrix {
     }
     /// y = A·x.
     pub fn mul_vec(&self, x: &[f64], y: &mut [f64]) {
+        match self.b {
+            7 => self.mul_vec_fixed::<7>(x, y),
+            8 => self.mul_vec_fixed::<8>(x, y),
+            9 => self.mul_vec_fixed::<9>(x, y),
+            _ => self.mul_vec_general(x, y),
+        }
+    }
+
+    fn mul_vec_general(&self, x: &[f64], y: &mut [f64]) {
         let (n, b) = (self.n, self.b);
         let w = b + 1;
         let x = &x[..n];
@@ -99,6 +108,38 @@ impl BandMatrix {
             y[i] += s;
         }
     }
+
+    fn mul_vec_fixed<const B: usize>(&self, x: &[f64], y: &mut [f64]) {
+        let n = self.n;
+        let w = B + 1;
+        let x = &x[..n];
+        let y = &mut y[..n];
+        y.iter_mut().for_each(|v| *v = 0.0);
+        for i in 0..n.min(B) {
+            let row = &self.a[i * w..(i + 1) * w];
+            let xi = x[i];
+            let mut s = row[B] * xi;
+            for j in 0..i {
+                let aij = row[j + B - i];
+                s += aij * x[j];
+                y[j] += aij * xi;
+            }
+            y[i] += s;
+        }
+        for i in B.min(n)..n {
+            let row: &[f64] = &self.a[i * w..(i + 1) * w];
+            let xs = &x[i - B..=i];
+            let ys = &mut y[i - B..=i];
+            let xi = xs[B];
+            let mut s = row[B] * xi;
+            for c in 0..B {
+                s += row[c] * xs[c];
+                ys[c] += row[c] * xi;
+            }
+            ys[B] += s;
+        }
+    }
+
     /// xᵀ·A·x.
     pub fn quad(&self, x: &[f64], work: &mut [f64]) -> f64 {
         self.mul_vec(x, work);
@@ -123,8 +164,20 @@ impl BandMatrix {
     /// below `rel_tol` times the largest absolute entry of its original row is
     /// a [`BandError::ZeroPivot`].
     pub fn factorize(&mut self, rel_tol: f64) -> Result<usize, BandError> {
+        match self.b {
+            7 => self.factorize_fixed::<7>(rel_tol),
+            8 => self.factorize_fixed::<8>(rel_tol),
+            9 => self.factorize_fixed::<9>(rel_tol),
+            _ => self.factorize_rows(0, self.n, rel_tol).map(|(neg, _)| neg),
+        }
+    }
+
+    /// Rows `i0..i1` of the factorisation for any bandwidth; returns the
+    /// negative pivots found in those rows.
+    fn factorize_rows(&mut self, i0: usize, i1: usize, rel_tol: f64) -> Result<(usize, ()), BandError> {
         let (n, b) = (self.n, self.b);
         let w = b + 1;
+        let _ = n;
         let mut neg = 0;
         // t[j − j0] = L[i][j]·D[j] for the current row i.
         let mut t_store = [0.0_f64; 32];
@@ -135,7 +188,7 @@ impl BandMatrix {
             t_heap.resize(w, 0.0);
             &mut t_heap
         };
-        for i in 0..n {
+        for i in i0..i1 {
             let j0 = i.saturating_sub(b);
             let len = i - j0;
             let (done, rest) = self.a.split_at_mut(i * w);
@@ -166,11 +219,60 @@ impl BandMatrix {
             }
             row[b] = d;
         }
+        Ok((neg, ()))
+    }
+
+    /// The same factorisation with the half-bandwidth fixed at compile time,
+    /// so that the inner loops unroll (rows b.. only; the first b rows go
+    /// through the general path).
+    fn factorize_fixed<const B: usize>(&mut self, rel_tol: f64) -> Result<usize, BandError> {
+        let n = self.n;
+        let w = B + 1;
+        let head = B.min(n);
+        let (mut neg, ()) = self.factorize_rows(0, head, rel_tol)?;
+        let mut t = [0.0_f64; B];
+        for i in head..n {
+            let (done, rest) = self.a.split_at_mut(i * w);
+            let row = &mut rest[..w];
+            let scale = row.iter().fold(0.0_f64, |m, x| m.max(x.abs()));
+            // column j = i − B + c
+            for c in 0..B {
+                let j = i - B + c;
+                let rj = &done[j * w..(j + 1) * w];
+                let mut s = row[c];
+                // k = i − B + c2 for c2 < c; L[j][k] at rj[c2 + B − c]
+                for c2 in 0..c {
+                    s -= t[c2] * rj[c2 + B - c];
+                }
+                t[c] = s;
+                row[c] = s / rj[B];
+            }
+            let mut d = row[B];
+            for c in 0..B {
+                d -= t[c] * row[c];
+            }
+            if !(d.abs() > rel_tol * scale) {
+                return Err(BandError::ZeroPivot { row: i });
+            }
+            if d < 0.0 {
+                neg += 1;
+            }
+            row[B] = d;
+        }
         Ok(neg)
     }
 
     /// Solve (L·D·Lᵀ)·x = rhs in place, after [`BandMatrix::factorize`].
     pub fn solve_in_place(&self, x: &mut [f64]) {
+        match self.b {
+            7 => self.solve_fixed::<7>(x),
+            8 => self.solve_fixed::<8>(x),
+            9 => self.solve_fixed::<9>(x),
+            _ => self.solve_general(x),
+        }
+    }
+
+    fn solve_general(&self, x: &mut [f64]) {
         let (n, b) = (self.n, self.b);
         let w = b + 1;
         let x = &mut x[..n];
@@ -192,6 +294,45 @@ impl BandMatrix {
             let xi = tail[0];
             for (l, xj) in row[j0 + b - i..b].iter().zip(head[j0..].iter_mut()) {
                 *xj -= l * xi;
+            }
+        }
+    }
+
+    fn solve_fixed<const B: usize>(&self, x: &mut [f64]) {
+        let n = self.n;
+        let w = B + 1;
+        let x = &mut x[..n];
+        let head = n.min(B);
+        for i in 0..n {
+            let row = &self.a[i * w..(i + 1) * w];
+            let mut s = x[i];
+            if i >= head {
+                let xs = &x[i - B..i];
+                for c in 0..B {
+                    s -= row[c] * xs[c];
+                }
+            } else {
+                for j in 0..i {
+                    s -= row[j + B - i] * x[j];
+                }
+            }
+            x[i] = s;
+        }
+        for i in 0..n {
+            x[i] /= self.a[i * w + B];
+        }
+        for i in (0..n).rev() {
+            let row = &self.a[i * w..(i + 1) * w];
+            let xi = x[i];
+            if i >= head {
+                let xs = &mut x[i - B..i];
+                for c in 0..B {
+                    xs[c] -= row[c] * xi;
+                }
+            } else {
+                for j in 0..i {
+                    x[j] -= row[j + B - i] * xi;
+                }
             }
         }
     }
@@ -246,6 +387,26 @@ mod tests {
             let neg_ref = eig.eigenvalues.iter().filter(|&&l| l < 0.0).count();
             let neg = m.factorize(1e-14).unwrap();
             assert_eq!(neg, neg_ref, "shift {shift}");
+        }
+    }
+
+    #[test]
+    fn fixed_bandwidth_kernels_match_dense() {
+        // The unrolled paths for b = 7, 8, 9 against nalgebra (LU solve and
+        // symmetric eigenvalues for the inertia).
+        for b in [7, 8, 9] {
+            for shift in [0.0, 3.9, 5.5] {
+                let (mut m, d) = sample(31, b, shift);
+                let neg_ref = d.clone().symmetric_eigen().eigenvalues.iter().filter(|&&l| l < 0.0).count();
+                let rhs: Vec<f64> = (0..31).map(|i| (i as f64 * 0.61).sin()).collect();
+                assert_eq!(m.factorize(1e-14).unwrap(), neg_ref, "b {b} shift {shift}");
+                let mut x = rhs.clone();
+                m.solve_in_place(&mut x);
+                let xr = d.lu().solve(&nalgebra::DVector::from_vec(rhs)).unwrap();
+                for i in 0..31 {
+                    assert!((x[i] - xr[i]).abs() < 1e-9 * (1.0 + xr[i].abs()), "b {b}");
+                }
+            }
         }
     }
 
