@@ -67,6 +67,40 @@ fn run(cli: Cli) -> Result<ExitCode> {
     }
 }
 
+/// `FILE:LINE:COLUMN: start, end: ` naming the support tables of a case
+/// file (the first one's position), for errors about the supports as a whole.
+fn support_location(path: &Path) -> String {
+    let text = std::fs::read_to_string(path).unwrap_or_default();
+    let mut found = Vec::new();
+    for (i, line) in text.lines().enumerate() {
+        let t = line.trim();
+        for (head, key) in [
+            ("[start]", "start"),
+            ("[end]", "end"),
+            ("[[support]]", "support"),
+            ("[[restraint]]", "restraint"),
+        ] {
+            if t.starts_with(head) {
+                found.push((i + 1, key));
+            }
+        }
+    }
+    match found.first() {
+        Some((line, _)) => {
+            let keys: Vec<String> = found
+                .iter()
+                .map(|(l, k)| format!("{k} (line {l})"))
+                .collect();
+            format!(
+                "{}:{line}:1: supports {}: ",
+                path.display(),
+                keys.join(", ")
+            )
+        }
+        None => format!("{}: ", path.display()),
+    }
+}
+
 /// Write `bytes` to `path` through a temporary file in the same folder and
 /// a rename, so that no partial file is ever left behind.
 fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
@@ -99,8 +133,11 @@ fn solve_cmd(
         reversed,
         ..Default::default()
     };
-    let sol = solve::solve(&rc.member, &settings)
-        .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
+    let sol = solve::solve(&rc.member, &settings).map_err(|e| match e {
+        // A mechanism is a matter of the supports as a whole: point at them.
+        solve::SolveError::Mechanism(msg) => anyhow::anyhow!("{}{msg}", support_location(path)),
+        other => anyhow::anyhow!("{}: {other}", path.display()),
+    })?;
     // Prepare every output before writing any.
     let mode_bytes = match mode {
         Some(_) => {

@@ -265,7 +265,12 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         }
         // At the ends one warping DOF is unused: tie it as well.
         let (t, r) = null_space(&a.rows);
-        dofs.push(NodeDofs { offset: off, r, t, sel: selection(&t, r) });
+        dofs.push(NodeDofs {
+            offset: off,
+            r,
+            t,
+            sel: selection(&t, r),
+        });
         off += r;
     }
     let n = off;

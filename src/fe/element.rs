@@ -153,32 +153,62 @@ pub fn stiffness(e: &ElementData) -> Mat8 {
 
 /// Geometric (load-proportional) matrix Kg, by 4-point Gauss (exact).
 pub fn geometric(e: &ElementData) -> Mat8 {
-    let mut g = [[0.0; 8]; 8];
     let h = e.h;
     let [n_ax, zc, rho2] = e.axial;
+    // 4×4 blocks: vφ (cross), φφ and vv; symmetric parts filled at the end.
+    let mut vp = [[0.0; 4]; 4];
+    let mut pp = [[0.0; 4]; 4];
+    let mut vv = [[0.0; 4]; 4];
+    let wagner = e.beta != 0.0;
+    let height = e.qa != [0.0, 0.0];
+    let axial = n_ax != 0.0;
     for &(xi, w) in &GAUSS4 {
         let s = xi * h;
         let m = e.m[0] + s * (e.m[1] + s * (e.m[2] + s * e.m[3]));
-        let qa = e.qa[0] + xi * (e.qa[1] - e.qa[0]);
         let (n, d, dd) = hermite(xi, h);
         let wh = w * h;
+        // − ∫ M v'' φ  → Hessian entries between v and φ DOFs
+        let a = -wh * m;
+        for i in 0..4 {
+            let ai = a * dd[i];
+            for j in 0..4 {
+                vp[i][j] += ai * n[j];
+            }
+        }
+        // − ½∫ M βy φ'², + ½∫ fz a φ², − ½∫ N [(v' − z_c φ')² + ρ² φ'²]
+        let cd = if wagner { -wh * m * e.beta } else { 0.0 }
+            - if axial {
+                wh * n_ax * (zc * zc + rho2)
+            } else {
+                0.0
+            };
+        let cn = if height {
+            wh * (e.qa[0] + xi * (e.qa[1] - e.qa[0]))
+        } else {
+            0.0
+        };
         for i in 0..4 {
             for j in 0..4 {
-                // − ∫ M v'' φ  → Hessian entries between v and φ DOFs
-                let c = -wh * m * dd[i] * n[j];
-                g[VD[i]][PD[j]] += c;
-                g[PD[j]][VD[i]] += c;
-                // − ½∫ M βy φ'² and + ½∫ fz a φ²
-                g[PD[i]][PD[j]] += wh * (-m * e.beta * d[i] * d[j] + qa * n[i] * n[j]);
-                if n_ax != 0.0 {
-                    // − ½∫ N [(v' − z_c φ')² + ρ² φ'²]
-                    let dd_ij = wh * d[i] * d[j];
-                    g[VD[i]][VD[j]] -= n_ax * dd_ij;
-                    g[VD[i]][PD[j]] += n_ax * zc * dd_ij;
-                    g[PD[i]][VD[j]] += n_ax * zc * dd_ij;
-                    g[PD[i]][PD[j]] -= n_ax * (zc * zc + rho2) * dd_ij;
+                pp[i][j] += cd * d[i] * d[j] + cn * n[i] * n[j];
+            }
+        }
+        if axial {
+            for i in 0..4 {
+                for j in 0..4 {
+                    let dij = wh * d[i] * d[j];
+                    vv[i][j] -= n_ax * dij;
+                    vp[i][j] += n_ax * zc * dij;
                 }
             }
+        }
+    }
+    let mut g = [[0.0; 8]; 8];
+    for i in 0..4 {
+        for j in 0..4 {
+            g[VD[i]][PD[j]] = vp[i][j];
+            g[PD[j]][VD[i]] = vp[i][j];
+            g[PD[i]][PD[j]] = pp[i][j];
+            g[VD[i]][VD[j]] = vv[i][j];
         }
     }
     g

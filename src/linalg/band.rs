@@ -174,7 +174,12 @@ impl BandMatrix {
 
     /// Rows `i0..i1` of the factorisation for any bandwidth; returns the
     /// negative pivots found in those rows.
-    fn factorize_rows(&mut self, i0: usize, i1: usize, rel_tol: f64) -> Result<(usize, ()), BandError> {
+    fn factorize_rows(
+        &mut self,
+        i0: usize,
+        i1: usize,
+        rel_tol: f64,
+    ) -> Result<(usize, ()), BandError> {
         let (n, b) = (self.n, self.b);
         let w = b + 1;
         let _ = n;
@@ -397,7 +402,13 @@ mod tests {
         for b in [7, 8, 9] {
             for shift in [0.0, 3.9, 5.5] {
                 let (mut m, d) = sample(31, b, shift);
-                let neg_ref = d.clone().symmetric_eigen().eigenvalues.iter().filter(|&&l| l < 0.0).count();
+                let neg_ref = d
+                    .clone()
+                    .symmetric_eigen()
+                    .eigenvalues
+                    .iter()
+                    .filter(|&&l| l < 0.0)
+                    .count();
                 let rhs: Vec<f64> = (0..31).map(|i| (i as f64 * 0.61).sin()).collect();
                 assert_eq!(m.factorize(1e-14).unwrap(), neg_ref, "b {b} shift {shift}");
                 let mut x = rhs.clone();

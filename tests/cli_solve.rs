@@ -1,0 +1,206 @@
+//! The `solve` command's interface contract, end to end through the binary:
+//! the JSON fields, the physical-case conversion, the mode CSV, and bad input
+//! (clear located error, exit code 2, nothing written).
+//!
+//! Values are checked against the closed form for uniform moment with forks,
+//! μ = π·√(1 + κ²) (Timoshenko & Gere 1961, Theory of Elastic Stability, §6.2).
+
+use serde_json::Value;
+use std::f64::consts::PI;
+use std::path::Path;
+use std::process::{Command, Output};
+
+fn run(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_ltb-atlas"))
+        .args(args)
+        .output()
+        .expect("binary runs")
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> String {
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p.display().to_string()
+}
+
+const CONTRACT_EXAMPLE: &str = r#"
+kappa = 0.5
+[start]                 # support at x = 0
+preset = "built-in"
+warping = "free"
+[end]
+preset = "free"
+[[load]]
+kind = "point"
+at = 1.0
+zeta = 0.6
+[[restraint]]
+at = 1.0
+lateral = "fixed"
+zeta = 0.6
+"#;
+
+#[test]
+fn json_carries_the_contract_fields() {
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(dir.path(), "case.toml", CONTRACT_EXAMPLE);
+    let out = run(&["solve", &case, "--json"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["status"], "ok");
+    let mu = v["mu_cr"].as_f64().unwrap();
+    let lf = v["load_factor"].as_f64().unwrap();
+    // Tip load on a unit cantilever: the largest |M| is the root moment = P·L.
+    assert!((mu - lf).abs() < 1e-12 * mu);
+    assert!(v["error_estimate"].as_f64().unwrap() <= 1e-4);
+    assert!(v["elements"].as_u64().unwrap() > 0);
+    let inertia = v["inertia"].as_array().unwrap();
+    assert_eq!(inertia.len(), 2);
+    assert_eq!(inertia[0]["negative_pivots"], 0);
+    assert!(
+        inertia[0]["shift"].as_f64().unwrap() < lf && inertia[1]["shift"].as_f64().unwrap() > lf
+    );
+    assert!(inertia[1]["negative_pivots"].as_u64().unwrap() >= 1);
+    assert!(
+        v["caution"]
+            .as_str()
+            .unwrap()
+            .contains("qualified engineer")
+    );
+}
+
+#[test]
+fn physical_uniform_moment_matches_the_closed_form() {
+    // Forks, equal end moments: Mcr = (π/L)·√(E·Iz·G·It)·√(1 + κ²)
+    // (Timoshenko & Gere 1961, §6.2), i.e. μ = π√(1+κ²) in the moment unit.
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(
+        dir.path(),
+        "beam.toml",
+        r#"
+length = "5 m"
+[section]
+kind = "i"
+h = 400.0
+b = 180.0
+tf = 13.5
+tw = 8.6
+r = 21.0
+[start]
+preset = "fork"
+[end]
+preset = "fork"
+[[load]]
+kind = "end-moments"
+start = 100.0
+end = 100.0
+"#,
+    );
+    let out = run(&["solve", &case, "--json", "--tolerance", "1e-6"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let kappa = v["kappa"].as_f64().unwrap();
+    let unit = v["moment_unit_knm"].as_f64().unwrap();
+    let mcr = v["mcr"].as_f64().unwrap();
+    let exact = unit * PI * (1.0 + kappa * kappa).sqrt();
+    assert!((mcr - exact).abs() < 2e-6 * exact, "{mcr} vs {exact}");
+    // The loads at the critical factor: the end moments scaled to Mcr.
+    let vals = v["loads_at_critical"][0]["values"].as_array().unwrap();
+    assert!((vals[0].as_f64().unwrap() - mcr).abs() < 1e-9 * mcr);
+}
+
+#[test]
+fn mode_csv_is_written_with_units_and_no_negative_zero() {
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(dir.path(), "case.toml", CONTRACT_EXAMPLE);
+    let mode = dir.path().join("mode.csv");
+    let out = run(&["solve", &case, "--mode", mode.to_str().unwrap()]);
+    assert!(out.status.success());
+    let text = std::fs::read_to_string(&mode).unwrap();
+    let mut lines = text.lines().skip_while(|l| l.starts_with('#'));
+    assert_eq!(lines.next(), Some("x,v,phi,v_top_flange,v_bottom_flange"));
+    let rows: Vec<Vec<f64>> = lines
+        .map(|l| l.split(',').map(|c| c.parse().unwrap()).collect())
+        .collect();
+    assert!(rows.len() > 10);
+    assert!(rows.iter().flatten().all(|x| x.is_finite()));
+    assert!(!text.contains(",-0.000000e0") && !text.contains("NaN"));
+    // Root built in: no displacement or twist at x = 0; largest |φ| is +1.
+    assert_eq!(rows[0][1], 0.0);
+    assert_eq!(rows[0][2], 0.0);
+    let pmax = rows.iter().map(|r| r[2]).fold(f64::NEG_INFINITY, f64::max);
+    assert!((pmax - 1.0).abs() < 1e-12);
+    // The text report carries the caution.
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(stdout.contains("CAUTION") && stdout.contains("not a design resistance"));
+}
+
+fn assert_bad(text: &str, expect: &[&str]) {
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(dir.path(), "bad.toml", text);
+    let mode = dir.path().join("mode.csv");
+    let out = run(&["solve", &case, "--mode", mode.to_str().unwrap()]);
+    assert_eq!(out.status.code(), Some(2), "expected exit 2 for:\n{text}");
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("bad.toml:"), "no file name in: {err}");
+    for e in expect {
+        assert!(err.contains(e), "`{e}` missing from: {err}");
+    }
+    assert!(!mode.exists(), "a mode file was written despite the error");
+    assert!(out.stdout.is_empty());
+}
+
+#[test]
+fn bad_input_is_located_and_writes_nothing() {
+    assert_bad(
+        "kappa = 0.5\n[start]\npreset = \"fork\"\n[end]\npreset = \"forkk\"\n[[load]]\nkind = \"point\"\nat = 0.5\n",
+        &[":5:", "end.preset", "fork"],
+    );
+    assert_bad(
+        "kappa = 0.5\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"point\"\nat = 1.5\n",
+        &[":8:", "load[0].at"],
+    );
+    assert_bad(
+        "kappa = -1\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"uniform\"\n",
+        &[":1:", "kappa"],
+    );
+    assert_bad(
+        "kappa = nan\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"uniform\"\n",
+        &[":1:", "kappa"],
+    );
+    assert_bad(
+        "kappa = 0.5\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\nwarp = \"fixed\"\n[[load]]\nkind = \"uniform\"\n",
+        &[":6:", "warp", "warping"],
+    );
+    assert_bad(
+        "kappa = 0.5\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"uniform\"\nvalue = 0.0\n",
+        &["zero"],
+    );
+    // Mechanisms in both planes, naming what is missing.
+    assert_bad(
+        "kappa = 0.5\n[start]\npreset = \"free\"\n[end]\npreset = \"free\"\nvertical = \"fixed\"\nin_plane_rotation = \"fixed\"\n[[load]]\nkind = \"point\"\nat = 0.5\n",
+        &[":2:", "mechanism", "twist"],
+    );
+    assert_bad(
+        "kappa = 0.5\n[start]\npreset = \"built-in\"\nvertical = \"free\"\nin_plane_rotation = \"free\"\n[end]\npreset = \"free\"\n[[load]]\nkind = \"point\"\nat = 1.0\n",
+        &["mechanism", "own plane", "vertical"],
+    );
+    // A couple at a free end is refused until a moment type is chosen.
+    assert_bad(
+        "kappa = 1.0\n[start]\npreset = \"built-in\"\n[end]\npreset = \"free\"\n[[load]]\nkind = \"end-moments\"\nend = 1.0\n",
+        &["free end"],
+    );
+    // Zero length.
+    assert_bad(
+        "length = \"0 m\"\n[section]\nkind = \"rectangle\"\nh = 200.0\nb = 20.0\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"uniform\"\nvalue = 1.0\n",
+        &[":1:", "length"],
+    );
+}
