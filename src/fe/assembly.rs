@@ -81,21 +81,16 @@ const TIED: [[f64; NFULL]; NFULL] = [
     [0.0, 0.0, 0.0, 1.0, 0.0],
 ];
 
-/// Row echelon null-space basis of constraint rows over `NFULL` unknowns.
-fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
-    if rows.len() == 1 && rows[0] == [0.0, 0.0, 0.0, 1.0, -1.0] {
-        return (TIED, 4);
-    }
+/// Reduced row echelon form of constraint rows: the independent rows (at
+/// most `NFULL`), each with a unit pivot.
+fn rref(rows: &[[f64; NFULL]]) -> Vec<[f64; NFULL]> {
     let mut a: Vec<[f64; NFULL]> = rows.to_vec();
-    let mut pivots: Vec<(usize, usize)> = Vec::new(); // (row, col)
     let mut row = 0;
     for col in 0..NFULL {
         if row >= a.len() {
             break;
         }
-        let (p, mx) = (row..a.len())
-            .map(|i| (i, a[i][col].abs()))
-            .fold((row, 0.0), |b, c| if c.1 > b.1 { c } else { b });
+        let (p, mx) = (row..a.len()).map(|i| (i, a[i][col].abs())).fold((row, 0.0), |b, c| if c.1 > b.1 { c } else { b });
         if mx < 1e-12 {
             continue;
         }
@@ -114,9 +109,24 @@ fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
                 }
             }
         }
-        pivots.push((row, col));
         row += 1;
     }
+    a.truncate(row);
+    a
+}
+
+/// Null-space basis T (columns 0..r) of constraint rows over `NFULL` unknowns.
+fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
+    if rows.len() == 1 && rows[0] == [0.0, 0.0, 0.0, 1.0, -1.0] {
+        return (TIED, 4);
+    }
+    let a = rref(rows);
+    // pivot column of each independent row
+    let pivots: Vec<(usize, usize)> = a
+        .iter()
+        .enumerate()
+        .map(|(r, row)| (r, row.iter().position(|v| v.abs() > 1e-12).unwrap_or(NFULL)))
+        .collect();
     let mut t = [[0.0; NFULL]; NFULL];
     let mut c = 0;
     for free in 0..NFULL {
@@ -125,7 +135,9 @@ fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
         }
         t[free][c] = 1.0;
         for &(pr, pc) in &pivots {
-            t[pc][c] = -a[pr][free];
+            if pc < NFULL {
+                t[pc][c] = -a[pr][free];
+            }
         }
         c += 1;
     }
@@ -133,12 +145,48 @@ fn null_space(rows: &[[f64; NFULL]]) -> ([[f64; NFULL]; NFULL], usize) {
 }
 
 /// Everything point-like that acts at one node.
-#[derive(Default, Clone)]
+#[derive(Default, Clone, Copy)]
 struct NodeActions {
-    rows: Vec<[f64; NFULL]>,
+    rows: Rows,
     spring: [[f64; NFULL]; NFULL],
     geo: [[f64; NFULL]; NFULL],
     torque: bool,
+}
+
+/// Constraint rows at a node (a handful at most; no heap allocation).
+#[derive(Clone, Copy)]
+struct Rows {
+    r: [[f64; NFULL]; 12],
+    n: usize,
+}
+
+impl Default for Rows {
+    fn default() -> Self {
+        Rows { r: [[0.0; NFULL]; 12], n: 0 }
+    }
+}
+
+impl Rows {
+    fn push(&mut self, c: [f64; NFULL]) {
+        if self.as_slice().contains(&c) {
+            return;
+        }
+        if self.n == self.r.len() {
+            // Keep a basis of the row space (at most five rows): the null
+            // space, which is all that matters, is unchanged.
+            let mut basis = Rows::default();
+            for row in rref(self.as_slice()) {
+                basis.r[basis.n] = row;
+                basis.n += 1;
+            }
+            *self = basis;
+        }
+        self.r[self.n] = c;
+        self.n += 1;
+    }
+    fn as_slice(&self) -> &[[f64; NFULL]] {
+        &self.r[..self.n]
+    }
 }
 
 fn add_outer(m: &mut [[f64; NFULL]; NFULL], c: &[f64; NFULL], k: f64) {
@@ -264,7 +312,7 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
             a.rows.push(c);
         }
         // At the ends one warping DOF is unused: tie it as well.
-        let (t, r) = null_space(&a.rows);
+        let (t, r) = null_space(a.rows.as_slice());
         dofs.push(NodeDofs {
             offset: off,
             r,
@@ -478,6 +526,20 @@ mod tests {
                 assert!(s.abs() < 1e-14);
             }
         }
+    }
+
+    #[test]
+    fn many_restraints_at_one_node_keep_their_null_space() {
+        // Twenty rows, mostly repeated, at one node: the same basis as the
+        // three distinct ones (exactness of the elimination, no source needed
+        // beyond linear algebra).
+        let mut rows = Rows::default();
+        for k in 0..20 {
+            rows.push([1.0, 0.0, -0.1 * (k % 2) as f64, 0.0, 0.0]);
+            rows.push([0.0, 0.0, 0.0, 1.0, -1.0]);
+        }
+        let (_, r) = null_space(rows.as_slice());
+        assert_eq!(r, 2); // v = φ = 0 and warping tied: v' and φ' remain
     }
 
     #[test]
