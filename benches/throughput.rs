@@ -125,7 +125,11 @@ fn kernels(cases: &[Member]) {
         .map(|m| {
             let keys = mesh::key_points(m);
             let mf = inplane::moments(m, &keys).unwrap();
-            let base = mesh::base_nodes(&keys, |x| (m.stiffness_at(x).eiw / m.stiffness_at(x).git).sqrt(), &Default::default());
+            let base = mesh::base_nodes(
+                &keys,
+                |x| (m.stiffness_at(x).eiw / m.stiffness_at(x).git).sqrt(),
+                &Default::default(),
+            );
             assembly::assemble(m, &mesh::refine(&base, 2), &mf)
         })
         .collect();
@@ -133,10 +137,12 @@ fn kernels(cases: &[Member]) {
     let mut worst: f64 = 0.0;
     let banded: Vec<f64> = systems
         .iter()
-        .map(|s| match eigen::lowest_positive(&s.k, &s.g, None, &Default::default()).unwrap() {
-            eigen::Outcome::Critical { lambda, .. } => lambda,
-            _ => f64::NAN,
-        })
+        .map(
+            |s| match eigen::lowest_positive(&s.k, &s.g, None, &Default::default()).unwrap() {
+                eigen::Outcome::Critical { lambda, .. } => lambda,
+                _ => f64::NAN,
+            },
+        )
         .collect();
     let tb = t.elapsed().as_secs_f64();
     let t = Instant::now();

@@ -90,7 +90,9 @@ fn rref(rows: &[[f64; NFULL]]) -> Vec<[f64; NFULL]> {
         if row >= a.len() {
             break;
         }
-        let (p, mx) = (row..a.len()).map(|i| (i, a[i][col].abs())).fold((row, 0.0), |b, c| if c.1 > b.1 { c } else { b });
+        let (p, mx) = (row..a.len())
+            .map(|i| (i, a[i][col].abs()))
+            .fold((row, 0.0), |b, c| if c.1 > b.1 { c } else { b });
         if mx < 1e-12 {
             continue;
         }
@@ -162,7 +164,10 @@ struct Rows {
 
 impl Default for Rows {
     fn default() -> Self {
-        Rows { r: [[0.0; NFULL]; 12], n: 0 }
+        Rows {
+            r: [[0.0; NFULL]; 12],
+            n: 0,
+        }
     }
 }
 

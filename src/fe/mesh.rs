@@ -137,10 +137,69 @@ pub fn base_nodes(
     layer_width: impl Fn(f64) -> f64,
     c: &MeshControls,
 ) -> Vec<f64> {
+    base_nodes_with(keys, layer_width, |_| c.h_max, c)
+}
+
+/// The base mesh of a member: twist layers graded as in [`base_nodes`], and
+/// under a continuous restraint the element length limited to half the
+/// half-wave length of a beam on an elastic foundation,
+///
+/// ```text
+/// ℓ_v = π·(E·Iz / k_l)^¼      ℓ_φ = π·(E·Iw / k_φ)^¼  (or π·(G·It / k_φ)^½ without warping)
+/// k_φ = k_t + k_l·z²
+/// ```
+///
+/// so that the short waves a stiff restraint forces are resolved from the
+/// first level (Hetényi, M. (1946). *Beams on Elastic Foundation*, ch. 2).
+pub fn member_base_nodes(m: &Member, c: &MeshControls) -> Vec<f64> {
+    let keys = key_points(m);
+    let local = |x: f64| {
+        let s = m.stiffness_at(x);
+        let mut h = c.h_max;
+        for r in &m.continuous {
+            if x > r.from && x < r.to {
+                let z = r.zeta / std::f64::consts::PI;
+                if r.lateral > 0.0 {
+                    h = h.min(0.5 * std::f64::consts::PI * (s.eiz / r.lateral).powf(0.25));
+                }
+                let kp = r.twist + r.lateral * z * z;
+                if kp > 0.0 {
+                    let l = if s.eiw > 0.0 {
+                        (s.eiw / kp).powf(0.25)
+                    } else {
+                        (s.git / kp).sqrt()
+                    };
+                    h = h.min(0.5 * std::f64::consts::PI * l);
+                }
+            }
+        }
+        h.max(MIN_ELEMENT)
+    };
+    base_nodes_with(
+        &keys,
+        |x| (m.stiffness_at(x).eiw / m.stiffness_at(x).git).sqrt(),
+        local,
+        c,
+    )
+}
+
+/// Smallest base element a continuous restraint may ask for (units of L).
+pub const MIN_ELEMENT: f64 = 1.0 / 256.0;
+
+fn base_nodes_with(
+    keys: &[KeyPoint],
+    layer_width: impl Fn(f64) -> f64,
+    local_h_max: impl Fn(f64) -> f64,
+    c0: &MeshControls,
+) -> Vec<f64> {
     let mut x = vec![keys[0].x];
     for pair in keys.windows(2) {
         let (a, b) = (pair[0], pair[1]);
         let len = b.x - a.x;
+        let c = &MeshControls {
+            h_max: local_h_max(0.5 * (a.x + b.x)).min(c0.h_max),
+            ..*c0
+        };
         let w = layer_width(0.5 * (a.x + b.x));
         let la = a.layer && w > 0.0 && c.first * w < c.h_max;
         let lb = b.layer && w > 0.0 && c.first * w < c.h_max;

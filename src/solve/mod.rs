@@ -165,14 +165,7 @@ pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
     } else {
         NO_BUCKLING_RATIO * PI * PI / n_ax.abs().max(f64::MIN_POSITIVE)
     };
-    let base = mesh::base_nodes(
-        &keys,
-        |x| {
-            let st = m.stiffness_at(x);
-            (st.eiw / st.git).sqrt()
-        },
-        &s.mesh,
-    );
+    let base = mesh::member_base_nodes(m, &s.mesh);
     let forward = direction(m, &mf, &base, s, limit, 1.0)?;
     let reversed = if s.reversed {
         Some(direction(m, &mf, &base, s, limit, -1.0)?)
