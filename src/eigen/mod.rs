@@ -126,6 +126,11 @@ fn round_off(k: &BandMatrix, x: &[f64], w: &mut [f64]) -> f64 {
     ROUND_OFF_GAIN * f64::EPSILON * (d / q).abs()
 }
 
+/// Relative pivot below which K counts as singular (a mechanism): round-off
+/// of the rigid motions of the smallest elements. Springs stiffer than about
+/// 1e-13 of the member's own stiffness are seen.
+pub const MECHANISM_PIVOT: f64 = 1e-13;
+
 /// Reusable workspace: the factor matrix and vectors.
 struct Work {
     c: BandMatrix,
@@ -368,7 +373,9 @@ pub fn lowest_positive(
     let mut kf = None;
     if opt.check_k || given.is_none() {
         let mut f = k.clone();
-        match f.factorize(1e-11) {
+        // Only a pivot at round-off level is a mechanism: a soft spring, however
+        // soft, keeps K positive definite.
+        match f.factorize(MECHANISM_PIVOT) {
             Ok(0) => {}
             Ok(_) => return Err(EigenError::Mechanism { row: 0 }),
             Err(BandError::ZeroPivot { row }) => return Err(EigenError::Mechanism { row }),

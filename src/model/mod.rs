@@ -105,7 +105,7 @@ impl Support {
     };
 
     /// True when neither lateral displacement nor twist is held (a free end
-    /// out of plane, where an applied couple's behaviour is ambiguous).
+    /// out of plane).
     pub fn is_free_out_of_plane(&self) -> bool {
         self.lateral.is_free() && self.twist.is_free()
     }

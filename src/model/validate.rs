@@ -63,6 +63,38 @@ fn support(prefix: &str, s: &Support) -> Result<(), ModelError> {
 }
 
 impl Member {
+    /// True when a couple applied at end position `x` (0 or 1, with end
+    /// support `s`) has an unambiguous critical value: the boundary term
+    /// M·v'·φ of the applied moment vanishes because twist φ or lateral
+    /// rotation v' is held exactly there (by the end support, a support or a
+    /// restraint at the end, or lateral restraints at two heights).
+    pub fn couple_is_unambiguous(&self, x: f64, s: &Support) -> bool {
+        let here = |a: f64| (a - x).abs() <= 1e-9;
+        let mut twist = s.twist.is_fixed();
+        let mut lat_rot = s.lateral_rotation.is_fixed();
+        let mut heights: Vec<f64> = Vec::new();
+        if s.lateral.is_fixed() {
+            heights.push(0.0);
+        }
+        for p in self.supports.iter().filter(|p| here(p.at)) {
+            twist |= p.support.twist.is_fixed();
+            lat_rot |= p.support.lateral_rotation.is_fixed();
+            if p.support.lateral.is_fixed() {
+                heights.push(0.0);
+            }
+        }
+        for r in self.restraints.iter().filter(|r| here(r.at)) {
+            twist |= r.twist.is_fixed();
+            if r.lateral.is_fixed() {
+                heights.push(r.zeta);
+            }
+        }
+        twist |= heights
+            .iter()
+            .any(|&a| heights.iter().any(|&b| (a - b).abs() > 1e-12));
+        twist || lat_rot
+    }
+
     /// Check everything that can be checked without a mesh.
     pub fn validate(&self) -> Result<(), ModelError> {
         finite("kappa", self.kappa)?;
@@ -188,23 +220,29 @@ impl Member {
                 Load::EndMoments { start, end } => {
                     finite(&format!("load[{i}].start"), start)?;
                     finite(&format!("load[{i}].end"), end)?;
-                    for (name, m, s) in [("start", start, &self.start), ("end", end, &self.end)] {
-                        if m != 0.0 && s.is_free_out_of_plane() {
+                    for (name, m, x, s) in [
+                        ("start", start, 0.0, &self.start),
+                        ("end", end, 1.0, &self.end),
+                    ] {
+                        if m != 0.0 && !self.couple_is_unambiguous(x, s) {
                             return Err(err(
                                 format!("load[{i}].{name}"),
                                 format!(
-                                    "a couple at a free end is refused: its critical value depends on how the \
-                                     applied moment follows the rotating end, and no moment type is implemented; \
-                                     hold the {name} laterally and against twist, or replace the couple by a load pair"
+                                    "a couple at an end that may twist and rotate sideways is refused: its critical \
+                                     value depends on how the applied moment follows the rotating end (the boundary \
+                                     term M·v'·φ), and no moment type is implemented; fix `twist` or \
+                                     `lateral_rotation` at the {name} (preset \"fork\" fixes twist), or replace the \
+                                     couple by a load pair"
                                 ),
                             ));
                         }
-                        if m != 0.0 && s.in_plane_rotation.is_fixed() {
+                        if m != 0.0 && !s.in_plane_rotation.is_free() {
                             return Err(err(
                                 format!("load[{i}].{name}"),
                                 format!(
-                                    "a couple applied at the {name}, whose in-plane rotation is fixed, goes straight \
-                                     into the support; free `in_plane_rotation` at the {name} or drop the couple"
+                                    "a couple applied at the {name}, whose in-plane rotation is restrained, goes \
+                                     (partly) into the support, so M at the {name} would not be the value given; \
+                                     free `in_plane_rotation` at the {name} or drop the couple"
                                 ),
                             ));
                         }

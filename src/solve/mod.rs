@@ -24,7 +24,7 @@ use crate::eigen::{self, Inertia, Outcome};
 use crate::fe::assembly::{self, NFULL, System};
 use crate::fe::inplane::{self, MomentField};
 use crate::fe::mesh::{self, MeshControls};
-use crate::model::{Member, ModelError, Support};
+use crate::model::{Load, Member, ModelError, Support};
 use std::f64::consts::PI;
 
 /// Factors more than this many times the reference critical value count as
@@ -150,20 +150,81 @@ pub enum SolveError {
 pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
     m.validate()?;
     let mut notes = Vec::new();
+    // Below KAPPA_NEGLIGIBLE the warping stiffness is dropped: its twist
+    // layers would be thinner than round-off allows to resolve, and dropping
+    // a stiffness can only lower the critical factor (safe side).
+    let analysed;
+    let m = if m.kappa > 0.0 && m.kappa < KAPPA_NEGLIGIBLE {
+        notes.push(format!(
+            "κ = {:.2e} < {KAPPA_NEGLIGIBLE}: the warping stiffness is neglected (κ taken as 0), which can only \
+             lower Mcr; warping restraints are ignored",
+            m.kappa
+        ));
+        analysed = Member {
+            kappa: 0.0,
+            ..m.clone()
+        };
+        &analysed
+    } else {
+        if m.kappa == 0.0 && warping_restrained(m) {
+            notes.push(
+                "κ = 0: the section has no warping stiffness, so warping restraints are ignored"
+                    .into(),
+            );
+        }
+        m
+    };
     let keys = mesh::key_points(m);
     let mf = inplane::moments(m, &keys).map_err(|e| SolveError::Mechanism(e.0))?;
     let m_max = mf.max_abs();
     let mu0 = PI * (1.0 + m.kappa * m.kappa).sqrt();
-    if m.kappa == 0.0 && warping_restrained(m) {
-        notes.push(
-            "κ = 0: the section has no warping stiffness, so warping restraints are ignored".into(),
-        );
-    }
     let n_ax = m.axial.map(|a| a.n).unwrap_or(0.0);
+    // The no-buckling limit: 1000 × a reference factor of the load pattern.
+    let height_terms: f64 = m
+        .loads
+        .iter()
+        .map(|l| match *l {
+            Load::Point { fz, zeta, .. } => (fz * zeta / PI).abs(),
+            Load::Distributed {
+                from,
+                to,
+                fz_from,
+                fz_to,
+                zeta,
+            } => 0.5 * (fz_from.abs() + fz_to.abs()) * (to - from) * (zeta / PI).abs(),
+            Load::EndMoments { .. } => 0.0,
+        })
+        .sum();
     let limit = if m_max.0 > 0.0 {
         NO_BUCKLING_RATIO * mu0 / m_max.0
+    } else if n_ax != 0.0 {
+        NO_BUCKLING_RATIO * PI * PI / n_ax.abs()
+    } else if height_terms > 0.0 {
+        // Only load-height terms (loads over supports): against the
+        // member's own torsional stiffness G·It/L = 1.
+        NO_BUCKLING_RATIO / height_terms
     } else {
-        NO_BUCKLING_RATIO * PI * PI / n_ax.abs().max(f64::MIN_POSITIVE)
+        // The loads produce no bending moment, no axial force and no
+        // load-height term: Kg = 0, nothing can buckle.
+        notes.push("the loads produce neither bending moment nor axial force (for example loads directly over supports)".into());
+        let nb = Direction {
+            status: Status::NoBuckling,
+            load_factor: None,
+            mu_cr: None,
+            error_estimate: 0.0,
+            elements: 0,
+            inertia: Vec::new(),
+            history: Vec::new(),
+            mode: None,
+        };
+        return Ok(Solution {
+            forward: nb.clone(),
+            reversed: s.reversed.then_some(nb),
+            m_max,
+            mu0,
+            moments: mf,
+            notes,
+        });
     };
     let base = mesh::member_base_nodes(m, &s.mesh);
     let forward = direction(m, &mf, &base, s, limit, 1.0)?;
@@ -181,6 +242,9 @@ pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
         notes,
     })
 }
+
+/// Torsion parameters below this are analysed as κ = 0 (with a note).
+pub const KAPPA_NEGLIGIBLE: f64 = 1e-3;
 
 fn warping_restrained(m: &Member) -> bool {
     let w = |s: &Support| !s.warping.is_free();
