@@ -74,11 +74,14 @@ pub struct LoadInfo {
     pub zeta: Option<f64>,
     /// Position text for the report (for example "x = 0.5 L").
     pub position: String,
+    /// "down" or "up" as the load acts (after the sign of `value`); None for
+    /// end moments.
+    pub direction: Option<&'static str>,
 }
 
 /// A case-file error: where and what.
 #[derive(Debug, Clone, thiserror::Error)]
-#[error("{file}:{line}:{column}: {key}: {message}")]
+#[error("{file}:{line}:{column}: {}{message}", if key.is_empty() { String::new() } else { format!("{key}: ") })]
 pub struct CaseError {
     /// File path as given (or "<input>").
     pub file: String,

@@ -49,7 +49,7 @@ const COMMON_TOP: &[&str] = &[
 /// Top-level keys of a dimensionless case (before [`COMMON_TOP`]).
 const DIMLESS_TOP: &[&str] = &["kappa", "delta", "axial", "zeta_centroid", "rho"];
 /// Top-level keys of a physical case (before [`COMMON_TOP`]).
-const PHYS_TOP: &[&str] = &["length", "section", "material"];
+const PHYS_TOP: &[&str] = &["length", "section", "material", "axial"];
 /// Support presets.
 const PRESETS: &[&str] = &["fork", "built-in", "free"];
 /// Support degrees of freedom, in schema order.
@@ -913,6 +913,7 @@ impl<'s> Builder<'s> {
                 unit: unit.into(),
                 zeta: None,
                 position,
+                direction: None,
             };
             let load = Load::EndMoments {
                 start: ms * factor,
@@ -1005,6 +1006,11 @@ impl<'s> Builder<'s> {
                 (load, vec![value.value, value_end.value], position)
             }
         };
+        let direction = if sign * values.first().copied().unwrap_or(1.0) >= 0.0 {
+            "up"
+        } else {
+            "down"
+        };
         let info = LoadInfo {
             name,
             kind: kind.into(),
@@ -1012,6 +1018,7 @@ impl<'s> Builder<'s> {
             unit: unit.into(),
             zeta: Some(h.zeta),
             position,
+            direction: Some(direction),
         };
         Ok((
             load,
@@ -1145,7 +1152,6 @@ impl<'s> Builder<'s> {
                  `beta_y` in a \"properties\" section"
                     .into(),
             ),
-            "axial" => Some("in a physical case give the axial force in [material] as `axial` (kN, compression positive)".into()),
             "zeta_centroid" | "rho" => Some(format!("in a physical case `{k}` is computed from the section")),
             "e" | "g" => Some(format!("give `{k}` (MPa) in [material]")),
             _ => None,
@@ -1187,28 +1193,31 @@ impl<'s> Builder<'s> {
         let st = sloc.tab(src);
         let sec = parse_section(src, &st)?;
         // Material.
-        let (mut e, mut g, mut axial_kn) = (210000.0, 81000.0, None);
+        let (mut e, mut g) = (210000.0, 81000.0);
         if let Some(mloc) = top.table("material")? {
             let mt = mloc.tab(src);
-            mt.check_keys(&["e", "g", "axial"], &|_| None)?;
+            mt.check_keys(&["e", "g"], &|k| {
+                (k == "axial").then(|| "give the axial force at the top level as `axial` (kN, compression positive)".into())
+            })?;
             e = mt
                 .num_min("e", Some(e), true, "Young's modulus E (MPa)")?
                 .map_or(e, |n| n.value);
             g = mt
                 .num_min("g", Some(g), true, "the shear modulus G (MPa)")?
                 .map_or(g, |n| n.value);
-            if let Some(n) = mt.num("axial")? {
-                if !sec.area_given {
-                    return Err(src.error(
-                        &n.span,
-                        &n.key,
-                        "an axial force needs the section area: add `area` (mm²) to the [section] of kind \
-                         \"properties\"",
-                    ));
-                }
-                self.reg.add_num("axial", &n);
-                axial_kn = Some(n.value);
+        }
+        let mut axial_kn = None;
+        if let Some(n) = top.num("axial")? {
+            if !sec.area_given {
+                return Err(src.error(
+                    &n.span,
+                    &n.key,
+                    "an axial force needs the section area: add `area` (mm²) to the [section] of kind \
+                     \"properties\"",
+                ));
             }
+            self.reg.add_num("axial", &n);
+            axial_kn = Some(n.value);
         }
         let pr = sec.props;
         let eiz = e * pr.iz * 1e-9;

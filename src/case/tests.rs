@@ -518,7 +518,7 @@ fn case_physical_top_flange_load_has_zeta_equal_kappa() {
 #[test]
 fn case_physical_monosymmetry_and_axial() {
     let text = format!(
-        "length = \"6 m\"\n{PROPS}beta_y = -120\nzs = 20\narea = 5381\n[material]\naxial = 50\n{FORKS}"
+        "length = \"6 m\"\naxial = 50\n{PROPS}beta_y = -120\nzs = 20\narea = 5381\n{FORKS}"
     );
     let c = ok(&text);
     let a = c.member.axial.unwrap();
@@ -534,10 +534,10 @@ fn case_physical_monosymmetry_and_axial() {
         a.zeta_centroid
     );
     assert!((a.rho - 0.5959584585).abs() < 1e-8, "{}", a.rho);
-    // Without `area` an axial force is refused at `material.axial`.
-    let text = format!("length = \"6 m\"\n{PROPS}[material]\naxial = 50\n{FORKS}");
+    // Without `area` an axial force is refused at `axial`.
+    let text = format!("length = \"6 m\"\naxial = 50\n{PROPS}{FORKS}");
     let e = err(&text);
-    assert_at(&e, &text, "50", 0, "material.axial");
+    assert_at(&e, &text, "50", 0, "axial");
 }
 
 #[test]

@@ -4,6 +4,7 @@
 
 use crate::CAUTION;
 use crate::case::{CaseKind, ResolvedCase};
+use crate::model::{Fixity, Member, Support};
 use crate::solve::{Direction, Solution, Status};
 use serde_json::{Value, json};
 use std::f64::consts::PI;
@@ -16,6 +17,8 @@ use std::io::{self, Write};
 /// ```text
 /// k² = [π² + √(π⁴ + 4·μ²·π²·κ²)] / (2·μ²)
 /// ```
+///
+/// A comparison value only: it is not a code's effective-length factor.
 pub fn le_over_l(mu: f64, kappa: f64) -> f64 {
     let p2 = PI * PI;
     ((p2 + (p2 * p2 + 4.0 * mu * mu * p2 * kappa * kappa).sqrt()) / (2.0 * mu * mu)).sqrt()
@@ -34,7 +37,92 @@ fn opt(x: Option<f64>) -> Value {
     x.map(num).unwrap_or(Value::Null)
 }
 
-fn direction_json(d: &Direction, case: &ResolvedCase, sol: &Solution, kappa: f64) -> Value {
+/// Fixed-point text with −0 printed as 0.
+fn fx(x: f64, digits: usize) -> String {
+    let s = format!("{:.*}", digits, x);
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
+}
+
+fn fixity_text(f: Fixity) -> String {
+    match f {
+        Fixity::Free => "free".into(),
+        Fixity::Fixed => "fixed".into(),
+        Fixity::Spring(k) => format!("spring {k}"),
+    }
+}
+
+fn fixity_json(f: Fixity) -> Value {
+    match f {
+        Fixity::Free => json!("free"),
+        Fixity::Fixed => json!("fixed"),
+        Fixity::Spring(k) => json!({ "spring": num(k) }),
+    }
+}
+
+fn support_json(s: &Support) -> Value {
+    json!({
+        "lateral": fixity_json(s.lateral),
+        "lateral_rotation": fixity_json(s.lateral_rotation),
+        "twist": fixity_json(s.twist),
+        "warping": fixity_json(s.warping),
+        "vertical": fixity_json(s.vertical),
+        "in_plane_rotation": fixity_json(s.in_plane_rotation),
+    })
+}
+
+fn support_text(s: &Support) -> String {
+    format!(
+        "lateral {}, lateral rotation {}, twist {}, warping {}; vertical {}, in-plane rotation {}",
+        fixity_text(s.lateral),
+        fixity_text(s.lateral_rotation),
+        fixity_text(s.twist),
+        fixity_text(s.warping),
+        fixity_text(s.vertical),
+        fixity_text(s.in_plane_rotation)
+    )
+}
+
+/// For a cantilever (one end free out of plane), the warping condition at
+/// its root, which every cantilever result must state (domain notes).
+pub fn root_warping(m: &Member) -> Option<(&'static str, Fixity)> {
+    match (m.start.is_free_out_of_plane(), m.end.is_free_out_of_plane()) {
+        (false, true) if m.supports.is_empty() => Some(("start", m.start.warping)),
+        (true, false) if m.supports.is_empty() => Some(("end", m.end.warping)),
+        _ => None,
+    }
+}
+
+fn notes(case: &ResolvedCase, sol: &Solution) -> Vec<String> {
+    let mut out: Vec<String> = Vec::new();
+    for n in case.notes.iter().chain(sol.notes.iter()) {
+        // The same fact may be noted by the case reader and by the solver.
+        let key: String = n.chars().take(24).collect();
+        if !out.iter().any(|o| o.starts_with(&key)) {
+            out.push(n.clone());
+        }
+    }
+    out
+}
+
+fn flip(d: Option<&'static str>, reversed: bool) -> Option<&'static str> {
+    match (d, reversed) {
+        (Some("down"), true) => Some("up"),
+        (Some("up"), true) => Some("down"),
+        (d, _) => d,
+    }
+}
+
+fn direction_json(
+    d: &Direction,
+    case: &ResolvedCase,
+    sol: &Solution,
+    kappa: f64,
+    reversed: bool,
+) -> Value {
     let mut o = json!({
         "status": d.status.as_str(),
         "mu_cr": opt(d.mu_cr),
@@ -45,6 +133,7 @@ fn direction_json(d: &Direction, case: &ResolvedCase, sol: &Solution, kappa: f64
         "mu_0": num(sol.mu0),
         "mu_ratio": opt(d.mu_cr.map(|m| m / sol.mu0)),
         "le_over_l": opt(d.mu_cr.map(|m| le_over_l(m, kappa))),
+        "loads_reversed": reversed,
     });
     if let CaseKind::Physical(_) = case.kind {
         let map = o.as_object_mut().expect("object");
@@ -58,16 +147,19 @@ fn direction_json(d: &Direction, case: &ResolvedCase, sol: &Solution, kappa: f64
                     "name": l.name,
                     "kind": l.kind,
                     "position": l.position,
+                    "direction": flip(l.direction, reversed),
                     "unit": l.unit,
-                    "values": l.values.iter().map(|v| opt(lf.map(|f| f * v))).collect::<Vec<_>>(),
+                    "values": l.values.iter().map(|v| opt(lf.map(|f| f * v.abs()))).collect::<Vec<_>>(),
                 })
             })
             .collect();
         map.insert("loads_at_critical".into(), Value::Array(loads));
         if let Some(a) = case.member.axial {
+            // Compression positive; reversing the loads turns it into tension.
+            let sign = if reversed { -1.0 } else { 1.0 };
             map.insert(
                 "axial_at_critical".into(),
-                opt(lf.map(|f| f * a.n * case.scales.axial)),
+                opt(lf.map(|f| sign * f * a.n * case.scales.axial)),
             );
         }
     }
@@ -77,40 +169,66 @@ fn direction_json(d: &Direction, case: &ResolvedCase, sol: &Solution, kappa: f64
 /// The JSON object of the `solve` contract.
 pub fn to_json(case: &ResolvedCase, sol: &Solution, tolerance: f64) -> Value {
     let m = &case.member;
-    let mut o = direction_json(&sol.forward, case, sol, m.kappa);
+    let mut o = direction_json(&sol.forward, case, sol, m.kappa, false);
     let map = o.as_object_mut().expect("object");
     map.insert("caution".into(), json!(CAUTION));
     map.insert("kappa".into(), num(m.kappa));
     map.insert("delta".into(), num(m.delta));
     map.insert("tolerance".into(), num(tolerance));
-    map.insert("m_max_at".into(), num(sol.m_max.1));
-    map.insert(
-        "notes".into(),
-        json!(
-            case.notes
-                .iter()
-                .chain(sol.notes.iter())
-                .collect::<Vec<_>>()
-        ),
-    );
+    map.insert("m_max_at_over_l".into(), num(sol.m_max.1));
+    map.insert("notes".into(), json!(notes(case, sol)));
+    let physical = matches!(case.kind, CaseKind::Physical(_));
     map.insert(
         "loads".into(),
-        json!(case.loads.iter().map(|l| json!({"name": l.name, "kind": l.kind, "zeta": opt(l.zeta), "position": l.position})).collect::<Vec<_>>()),
+        json!(case
+            .loads
+            .iter()
+            .map(|l| {
+                let mut j = json!({"name": l.name, "kind": l.kind, "zeta": opt(l.zeta), "direction": l.direction, "position": l.position});
+                if physical {
+                    j["height_mm"] = opt(l.zeta.map(|z| z * case.scales.height * 1000.0));
+                }
+                j
+            })
+            .collect::<Vec<_>>()),
     );
+    map.insert(
+        "supports".into(),
+        json!({
+            "start": support_json(&m.start),
+            "end": support_json(&m.end),
+            "intermediate": m.supports.iter().map(|p| { let mut j = support_json(&p.support); j["at"] = num(p.at); j }).collect::<Vec<_>>(),
+        }),
+    );
+    map.insert(
+        "restraints".into(),
+        json!(m
+            .restraints
+            .iter()
+            .map(|r| json!({"at": num(r.at), "zeta": num(r.zeta), "lateral": fixity_json(r.lateral), "twist": fixity_json(r.twist)}))
+            .collect::<Vec<_>>()),
+    );
+    if let Some((end, w)) = root_warping(m) {
+        map.insert("cantilever_root".into(), json!(end));
+        map.insert("root_warping".into(), fixity_json(w));
+    }
     if let CaseKind::Physical(p) = &case.kind {
         map.insert("length_m".into(), num(p.length));
         map.insert("section".into(), json!(p.section_label));
         map.insert("moment_unit_knm".into(), num(case.scales.moment));
     }
     if let Some(r) = &sol.reversed {
-        map.insert("reversed".into(), direction_json(r, case, sol, m.kappa));
+        map.insert(
+            "reversed".into(),
+            direction_json(r, case, sol, m.kappa, true),
+        );
     }
     o
 }
 
 fn fmt_opt(x: Option<f64>, digits: usize) -> String {
     match x {
-        Some(v) => format!("{:.*}", digits, if v == 0.0 { 0.0 } else { v }),
+        Some(v) => fx(v, digits),
         None => "—".into(),
     }
 }
@@ -121,17 +239,25 @@ fn write_direction(
     d: &Direction,
     case: &ResolvedCase,
     sol: &Solution,
+    reversed: bool,
 ) -> io::Result<()> {
     writeln!(w, "{title}")?;
     match d.status {
         Status::NoBuckling => {
-            writeln!(
-                w,
-                "  no buckling under this load pattern: no critical factor below {:.0} × the reference value \
-                 (proven by an inertia count of zero). Lateral–torsional buckling does not govern in this \
-                 direction; this is not an unlimited resistance.",
-                crate::solve::NO_BUCKLING_RATIO
-            )?;
+            if d.inertia.is_empty() {
+                writeln!(
+                    w,
+                    "  no buckling: the loads produce neither bending moment nor axial force."
+                )?;
+            } else {
+                writeln!(
+                    w,
+                    "  no buckling under this load pattern: no critical factor below {:.0} × the reference value \
+                     (proven by an inertia count of zero). Lateral–torsional buckling does not govern in this \
+                     direction; this is not an unlimited resistance.",
+                    crate::solve::NO_BUCKLING_RATIO
+                )?;
+            }
             return Ok(());
         }
         Status::NotConverged => writeln!(
@@ -155,7 +281,7 @@ fn write_direction(
     )?;
     writeln!(
         w,
-        "  Le/L (uniform-moment fork) {}",
+        "  Le/L                       {}   (length giving the same Mcr in the uniform-moment fork formula; a comparison value, not a code factor)",
         fmt_opt(d.mu_cr.map(|m| le_over_l(m, case.member.kappa)), 4)
     )?;
     if let CaseKind::Physical(_) = case.kind {
@@ -168,15 +294,27 @@ fn write_direction(
             let vals: Vec<String> = l
                 .values
                 .iter()
-                .map(|v| fmt_opt(d.load_factor.map(|f| f * v), 3))
+                .map(|v| fmt_opt(d.load_factor.map(|f| f * v.abs()), 3))
                 .collect();
             let name = l.name.clone().unwrap_or_else(|| l.kind.clone());
+            let dir = flip(l.direction, reversed)
+                .map(|d| format!(" {d}"))
+                .unwrap_or_default();
             writeln!(
                 w,
-                "    {name:<14} {} {} at {}",
+                "    {name:<14} {} {}{dir} at {}",
                 vals.join(" / "),
                 l.unit,
                 l.position
+            )?;
+        }
+        if let Some(a) = case.member.axial {
+            let n = d.load_factor.map(|f| f * a.n * case.scales.axial);
+            writeln!(
+                w,
+                "    axial          {} kN {}",
+                fmt_opt(n, 3),
+                if reversed { "tension" } else { "compression" }
             )?;
         }
     }
@@ -188,7 +326,7 @@ fn write_direction(
     let counts: Vec<String> = d
         .inertia
         .iter()
-        .map(|i| format!("{} below {:.6}", i.negative, i.shift))
+        .map(|i| format!("{} below {}", i.negative, fx(i.shift, 6)))
         .collect();
     writeln!(w, "  lowest-factor proof        {}", counts.join("; "))?;
     Ok(())
@@ -220,24 +358,61 @@ pub fn write_text(
     }
     writeln!(
         w,
-        "κ = {:.4}   δ = {:.4}   largest |M| at x = {:.4} L",
-        m.kappa, m.delta, sol.m_max.1
+        "κ = {}   δ = {}   largest |M| at x = {} L",
+        fx(m.kappa, 4),
+        fx(m.delta, 4),
+        fx(sol.m_max.1, 4)
     )?;
-    for l in &case.loads {
-        let z = l.zeta.map(|z| format!(", ζ = {z:.4}")).unwrap_or_default();
+    writeln!(w, "  start (x = 0): {}", support_text(&m.start))?;
+    writeln!(w, "  end (x = L):   {}", support_text(&m.end))?;
+    for p in &m.supports {
         writeln!(
             w,
-            "  load {}: {}{}",
-            l.name.clone().unwrap_or_else(|| l.kind.clone()),
-            l.position,
-            z
+            "  support at x = {} L: {}",
+            fx(p.at, 4),
+            support_text(&p.support)
         )?;
     }
-    write_direction(w, "Loads as given", &sol.forward, case, sol)?;
-    if let Some(r) = &sol.reversed {
-        write_direction(w, "Loads reversed", r, case, sol)?;
+    for r in &m.restraints {
+        writeln!(
+            w,
+            "  restraint at x = {} L, ζ = {}: lateral {}, twist {}",
+            fx(r.at, 4),
+            fx(r.zeta, 4),
+            fixity_text(r.lateral),
+            fixity_text(r.twist)
+        )?;
     }
-    for n in case.notes.iter().chain(sol.notes.iter()) {
+    if let Some((end, wf)) = root_warping(m) {
+        writeln!(w, "  cantilever root ({end}): warping {}", fixity_text(wf))?;
+    }
+    for l in &case.loads {
+        let z = l
+            .zeta
+            .map(|z| format!(", ζ = {}", fx(z, 4)))
+            .unwrap_or_default();
+        let d = l.direction.map(|d| format!(", {d}")).unwrap_or_default();
+        writeln!(
+            w,
+            "  load {}: {}{}{}",
+            l.name.clone().unwrap_or_else(|| l.kind.clone()),
+            l.position,
+            z,
+            d
+        )?;
+    }
+    write_direction(w, "Loads as given", &sol.forward, case, sol, false)?;
+    if let Some(r) = &sol.reversed {
+        write_direction(
+            w,
+            "Loads reversed (every load and the axial force change sign)",
+            r,
+            case,
+            sol,
+            true,
+        )?;
+    }
+    for n in notes(case, sol) {
         writeln!(w, "note: {n}")?;
     }
     writeln!(
@@ -253,13 +428,14 @@ pub fn write_text(
 }
 
 /// Mode shape CSV: `#` lines (caution, units), then
-/// `x,v,phi,v_top_flange,v_bottom_flange`.
+/// `x,v,phi,v_top_flange,v_bottom_flange` (flange columns empty when the
+/// section's flange heights are unknown).
 pub fn write_mode_csv(w: &mut dyn Write, case: &ResolvedCase, d: &Direction) -> io::Result<()> {
+    writeln!(w, "# {CAUTION}")?;
     let Some(mode) = &d.mode else {
         writeln!(w, "# no mode: {}", d.status.as_str())?;
         return Ok(());
     };
-    writeln!(w, "# {CAUTION}")?;
     let (xs, vs, top, bot, xunit, vunit) = match &case.kind {
         CaseKind::Dimensionless => {
             let a = case.member.kappa / PI;
@@ -279,20 +455,29 @@ pub fn write_mode_csv(w: &mut dyn Write, case: &ResolvedCase, d: &Direction) -> 
     };
     writeln!(
         w,
-        "# mode shape, normalised so that the largest |phi| is 1 rad; x in {xunit}; v and flange displacements in {vunit}; phi in rad"
+        "# buckling mode for the loads as given, normalised so that the largest |phi| is 1 rad"
+    )?;
+    writeln!(
+        w,
+        "# x in {xunit}; v (shear centre) and flange lateral displacements in {vunit}; phi in rad"
     )?;
     writeln!(
         w,
         "# flanges: top and bottom flange centroids{}",
-        if matches!(case.kind, CaseKind::Dimensionless) {
-            " taken at zeta = +kappa and -kappa (doubly symmetric I-section)"
-        } else {
-            ""
+        match case.kind {
+            CaseKind::Dimensionless =>
+                " taken at zeta = +kappa and -kappa (doubly symmetric I-section)",
+            _ if !(top.is_finite() && bot.is_finite()) =>
+                " unknown for this section: columns left empty",
+            _ => "",
         }
     )?;
     writeln!(w, "x,v,phi,v_top_flange,v_bottom_flange")?;
     let f = |x: f64| {
-        let x = if x == 0.0 || x.abs() < 1e-15 { 0.0 } else { x };
+        if !x.is_finite() {
+            return String::new();
+        }
+        let x = if x.abs() < 1e-300 { 0.0 } else { x };
         format!("{x:.6e}")
     };
     for i in 0..mode.x.len() {
