@@ -283,7 +283,8 @@ mod tests {
 
     #[test]
     fn simply_supported_uniform_load() {
-        // M = q·x·(1 − x)/2 for downward q (statics, any textbook).
+        // M = q·x·(1 − x)/2 for downward q (statics; Roark's Formulas for Stress and
+        // Strain, 7th ed., Table 8.1 case 2e, from memory).
         let m = member(
             Support::FORK,
             Support::FORK,
@@ -305,7 +306,8 @@ mod tests {
 
     #[test]
     fn fixed_ended_uniform_load() {
-        // Fixed-end moments −qL²/12, midspan +qL²/24 (standard beam tables).
+        // Fixed-end moments −qL²/12, midspan +qL²/24 (Roark, 7th ed., Table 8.1
+        // case 2e with both ends fixed, from memory).
         let mut fixed = Support::FORK;
         fixed.in_plane_rotation = Fixity::Fixed;
         let m = member(
@@ -327,7 +329,7 @@ mod tests {
     #[test]
     fn propped_cantilever_point_load() {
         // Built-in at 0, propped at 1, central load P: root moment −3PL/16,
-        // under the load +5PL/32 (standard beam tables).
+        // under the load +5PL/32 (Roark, 7th ed., Table 8.1 case 1c, from memory).
         let m = member(
             Support::BUILT_IN,
             Support::FORK,
