@@ -175,5 +175,7 @@ fn main() {
     );
     run("mix (cantilever + simple span)", &mix(n));
     run("built-in cantilever, tip load", &cantilever_tip(n));
-    kernels(&mix(n.min(2000)));
+    if std::env::var("LTB_BENCH_SKIP_KERNELS").is_err() {
+        kernels(&mix(n.min(2000)));
+    }
 }
