@@ -6,6 +6,12 @@
 //! turns results into text, JSON and CSV; the binary in `main.rs` is a thin
 //! CLI over them.
 
+#![deny(missing_docs)]
+// Numeric kernels index several arrays with one loop variable; iterator
+// chains would hide the matrix algebra. `!(x > tol)` is deliberate: it is
+// true for NaN as well.
+#![allow(clippy::needless_range_loop, clippy::neg_cmp_op_on_partial_ord)]
+
 pub mod case;
 pub mod eigen;
 pub mod fe;

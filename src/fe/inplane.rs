@@ -150,13 +150,13 @@ pub fn distributed_on(m: &Member, a: f64, b: f64, weight: impl Fn(f64) -> f64) -
             fz_to,
             zeta,
         } = *l
+            && mid > from
+            && mid < to
         {
-            if mid > from && mid < to {
-                let f = |x: f64| fz_from + (fz_to - fz_from) * (x - from) / (to - from);
-                let w = weight(zeta);
-                q[0] += w * f(a);
-                q[1] += w * f(b);
-            }
+            let f = |x: f64| fz_from + (fz_to - fz_from) * (x - from) / (to - from);
+            let w = weight(zeta);
+            q[0] += w * f(a);
+            q[1] += w * f(b);
         }
     }
     q
