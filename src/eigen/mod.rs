@@ -419,9 +419,9 @@ pub fn lowest_positive(
     for _attempt in 0..4 {
         // Shift just below the estimate so the count there is informative.
         let (s, neg) = wk.factor_at(k, g, sigma);
-        let _ = neg;
+        // The count at the iteration shift comes free: keep it.
+        inertia.push(Inertia { shift: s, negative: neg });
         let lam = inverse_iteration(k, g, &mut wk, &mut x, 12).ok_or(EigenError::NotConverged)?;
-        let _ = s;
         if !(lam > 0.0) {
             return Err(EigenError::NotConverged);
         }
@@ -481,36 +481,31 @@ pub fn lowest_positive(
 }
 
 /// Prove that `lambda` (with mode `x`) is the lowest positive critical
-/// factor: negative-pivot counts of K + s·Kg of 0 at s = λ(1 − ε) and ≥ 1 at
-/// s = λ(1 + ε), with ε = max(`opt.proof`, round-off of λ). Returns the
-/// counts, or None when they do not bracket λ (the caller then searches).
-pub fn prove(
-    k: &BandMatrix,
-    g: &BandMatrix,
-    lambda: f64,
-    x: &[f64],
-    opt: &Options,
-) -> Option<Vec<Inertia>> {
+/// factor to within ε = max(`opt.proof`, round-off of λ).
+///
+/// λ is a Rayleigh quotient, so by the minimum principle λ ≥ λ₁ (the lowest
+/// positive factor of the discrete problem); a negative-pivot count of zero
+/// at λ·(1 − ε) gives λ₁ ≥ λ·(1 − ε). Together: λ₁ ∈ [λ(1 − ε), λ]. A count
+/// of at least one above λ is reported as well — from `known` (for example
+/// the count at the inverse-iteration shift) when one exists, otherwise
+/// from a factorisation at λ·(1 + ε). Returns None when the lower count is
+/// not zero (the caller then searches).
+pub fn prove(k: &BandMatrix, g: &BandMatrix, lambda: f64, x: &[f64], known: &[Inertia], opt: &Options) -> Option<Vec<Inertia>> {
     let mut wk = Work::new(k);
     let eps = opt.proof.max(round_off(k, x, &mut wk.t2));
     let (s_lo, n_lo) = wk.factor_at(k, g, lambda * (1.0 - eps));
     if n_lo != 0 {
         return None;
     }
+    let lower = Inertia { shift: s_lo, negative: n_lo };
+    if let Some(up) = known.iter().filter(|i| i.shift >= lambda && i.negative >= 1).min_by(|a, b| a.shift.total_cmp(&b.shift)) {
+        return Some(vec![lower, *up]);
+    }
     let (s_hi, n_hi) = wk.factor_at(k, g, lambda * (1.0 + eps));
     if n_hi == 0 {
         return None;
     }
-    Some(vec![
-        Inertia {
-            shift: s_lo,
-            negative: n_lo,
-        },
-        Inertia {
-            shift: s_hi,
-            negative: n_hi,
-        },
-    ])
+    Some(vec![lower, Inertia { shift: s_hi, negative: n_hi }])
 }
 
 /// Bisection on the inertia count: the lowest factor lies in (0, hi) where

@@ -280,6 +280,7 @@ fn direction(
         mode: None,
     };
     let mut level = 0;
+    let mut level_inertia: Vec<Inertia>;
     while level <= s.max_level {
         let x = mesh::refine(base, level);
         let mut sys = assembly::assemble(m, &x, mf);
@@ -316,8 +317,11 @@ fn direction(
                 lambda,
                 mode,
                 round_off,
-                ..
-            } => (lambda, mode, round_off),
+                inertia,
+            } => {
+                level_inertia = inertia;
+                (lambda, mode, round_off)
+            }
         };
         history.push((sys.elements(), lambda));
         // Estimate against the previous level (none on the first: unknown).
@@ -339,7 +343,7 @@ fn direction(
                 check_k: false,
                 ..Default::default()
             };
-            if let Some(inertia) = eigen::prove(&sys.k, &sys.g, lambda, &mode, &popt) {
+            if let Some(inertia) = eigen::prove(&sys.k, &sys.g, lambda, &mode, &level_inertia, &popt) {
                 return Ok(finish(
                     est,
                     s.tolerance,
