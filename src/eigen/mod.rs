@@ -15,9 +15,10 @@
 //!    ```
 //!    which converges to the factor nearest σ.
 //! 3. Prove. The number of negative pivots of K + s·Kg is the number of
-//!    critical factors in (0, s) (Sylvester's law of inertia, K ≻ 0). A count
-//!    of 0 at s = λ·(1 − ε) and at least 1 at s = λ·(1 + ε) proves that the
-//!    lowest positive factor lies within ε of λ. If the lower count is not
+//!    critical factors in (0, s) (Sylvester's law of inertia, K ≻ 0). The
+//!    Rayleigh quotient λ is at least the lowest positive factor λ₁ (minimum
+//!    principle), so a count of 0 at s = λ·(1 − ε) proves λ₁ ∈ [λ(1 − ε), λ];
+//!    a count ≥ 1 above λ is reported as well. If the lower count is not
 //!    zero the estimate missed a lower factor: bisection on the count finds
 //!    it and the refinement repeats.
 //!
