@@ -4,7 +4,10 @@
 //! start from another case). Prints its figures; run with
 //! `cargo bench --bench throughput`. Under `cargo test` it returns at once.
 
-use ltb_atlas::model::{Load, Member, Support};
+#[path = "../tests/common/mod.rs"]
+mod common;
+
+use ltb_atlas::model::Member;
 use ltb_atlas::solve::{Settings, Status, solve};
 use std::time::Instant;
 
@@ -24,47 +27,26 @@ fn log_uniform(r: &mut Lcg, lo: f64, hi: f64) -> f64 {
     (lo.ln() + r.next() * (hi.ln() - lo.ln())).exp()
 }
 
+/// Next (κ, ζ): κ log-uniform in [lo, hi], then ζ uniform in [−1, 1] (in that order of draws).
+fn kappa_zeta(r: &mut Lcg, lo: f64, hi: f64) -> (f64, f64) {
+    let kappa = log_uniform(r, lo, hi);
+    let zeta = -1.0 + 2.0 * r.next();
+    (kappa, zeta)
+}
+
 pub fn mix(n: usize) -> Vec<Member> {
     let mut r = Lcg(20261201);
     (0..n)
         .map(|i| {
-            let kappa = log_uniform(&mut r, 0.05, 5.0);
-            let zeta = -1.0 + 2.0 * r.next();
+            let (kappa, zeta) = kappa_zeta(&mut r, 0.05, 5.0);
             let point = r.next() < 0.5;
-            if i % 2 == 0 {
-                let m = Member::new(kappa, Support::BUILT_IN, Support::FREE);
-                if point {
-                    m.with_load(Load::Point {
-                        at: 1.0,
-                        fz: -1.0,
-                        zeta,
-                    })
-                } else {
-                    m.with_load(Load::Distributed {
-                        from: 0.0,
-                        to: 1.0,
-                        fz_from: -1.0,
-                        fz_to: -1.0,
-                        zeta,
-                    })
-                }
-            } else {
-                let m = Member::new(kappa, Support::FORK, Support::FORK);
-                if point {
-                    m.with_load(Load::Point {
-                        at: 0.5,
-                        fz: -1.0,
-                        zeta,
-                    })
-                } else {
-                    m.with_load(Load::Distributed {
-                        from: 0.0,
-                        to: 1.0,
-                        fz_from: -1.0,
-                        fz_to: -1.0,
-                        zeta,
-                    })
-                }
+            // Even cases: built-in cantilever (tip or uniform load); odd: simple span (central
+            // point or uniform load).
+            match (i % 2 == 0, point) {
+                (true, true) => common::cantilever_tip(kappa, zeta),
+                (true, false) => common::cantilever_uniform(kappa, zeta),
+                (false, true) => common::simple_span_central_point(kappa, zeta),
+                (false, false) => common::simple_span_uniform(kappa, zeta),
             }
         })
         .collect()
@@ -74,13 +56,8 @@ pub fn cantilever_tip(n: usize) -> Vec<Member> {
     let mut r = Lcg(4100);
     (0..n)
         .map(|_| {
-            let kappa = log_uniform(&mut r, 0.3, 3.0);
-            let zeta = -1.0 + 2.0 * r.next();
-            Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta,
-            })
+            let (kappa, zeta) = kappa_zeta(&mut r, 0.3, 3.0);
+            common::cantilever_tip(kappa, zeta)
         })
         .collect()
 }

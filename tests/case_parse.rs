@@ -1,9 +1,17 @@
 //! Case files through the public interface: physical cases with computed
 //! sections, file errors, and the Display form of errors.
 
-use ltb_atlas::case::{CaseKind, load_case, parse_case};
+mod common;
+
+use common::rel;
+use ltb_atlas::case::{CaseKind, ResolvedCase, load_case, parse_case};
 use ltb_atlas::model::Load;
 use std::io::Write;
+
+/// Parse case text that must be valid, panicking with the located error otherwise.
+fn parsed(text: &str, origin: &str) -> ResolvedCase {
+    parse_case(text, origin).unwrap_or_else(|e| panic!("{e}"))
+}
 
 const FORKS: &str = "[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n";
 
@@ -23,9 +31,9 @@ fn case_physical_ipe300_kappa_and_top_flange_zeta() {
         "length = \"6 m\"\n{IPE300}{FORKS}[[load]]\nkind = \"uniform\"\nvalue = 10.0\nheight = \"top-flange\"\n\
          [[load]]\nkind = \"point\"\nat = \"3 m\"\nvalue = 5\nheight = \"bottom-flange\"\n"
     );
-    let c = parse_case(&text, "ipe.toml").unwrap_or_else(|e| panic!("{e}"));
+    let c = parsed(&text, "ipe.toml");
     let k = c.member.kappa;
-    assert!((k - 0.6669).abs() < 0.02 * 0.6669, "kappa = {k}");
+    assert!(rel(k, 0.6669) < 0.02, "kappa = {k}");
     let Load::Distributed { zeta, fz_from, .. } = c.member.loads[0] else {
         panic!()
     };
@@ -57,8 +65,8 @@ fn case_physical_mono_i_sign_of_delta() {
              tf_bottom = 12\ntw = 8\n{FORKS}[[load]]\nkind = \"uniform\"\nvalue = 1\n"
         )
     };
-    let top_big = parse_case(&mono(250.0, 150.0), "m.toml").unwrap_or_else(|e| panic!("{e}"));
-    let bottom_big = parse_case(&mono(150.0, 250.0), "m.toml").unwrap_or_else(|e| panic!("{e}"));
+    let top_big = parsed(&mono(250.0, 150.0), "m.toml");
+    let bottom_big = parsed(&mono(150.0, 250.0), "m.toml");
     assert!(top_big.member.delta < 0.0, "{}", top_big.member.delta);
     assert!(bottom_big.member.delta > 0.0, "{}", bottom_big.member.delta);
     assert!((top_big.member.delta + bottom_big.member.delta).abs() < 1e-9);
@@ -70,7 +78,7 @@ fn case_physical_mono_i_sign_of_delta() {
 fn case_physical_rectangle_kappa_zero_note() {
     let text = "length = \"2 m\"\n[section]\nkind = \"rectangle\"\nh = 300\nb = 20\n[start]\npreset = \"built-in\"\n\
                 [end]\n[[load]]\nkind = \"point\"\nat = 1\nvalue = 1\n";
-    let c = parse_case(text, "r.toml").unwrap_or_else(|e| panic!("{e}"));
+    let c = parsed(text, "r.toml");
     assert_eq!(c.member.kappa, 0.0);
     assert!(
         c.notes.iter().any(|n| n.starts_with("κ = 0")),

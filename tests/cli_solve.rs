@@ -5,8 +5,10 @@
 //! Values are checked against the closed form for uniform moment with forks,
 //! μ = π·√(1 + κ²) (Timoshenko & Gere 1961, Theory of Elastic Stability, §6.2).
 
+mod common;
+
+use common::mu0;
 use serde_json::Value;
-use std::f64::consts::PI;
 use std::path::Path;
 use std::process::{Command, Output};
 
@@ -21,6 +23,22 @@ fn write(dir: &Path, name: &str, text: &str) -> String {
     let p = dir.join(name);
     std::fs::write(&p, text).unwrap();
     p.display().to_string()
+}
+
+/// Write `text` as `name` in a fresh temporary folder, run `solve` on it with `--json` and the
+/// extra `args`, assert that it succeeded and parse its standard output.
+fn solve_json(name: &str, text: &str, args: &[&str]) -> Value {
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(dir.path(), name, text);
+    let mut all = vec!["solve", case.as_str(), "--json"];
+    all.extend_from_slice(args);
+    let out = run(&all);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).unwrap()
 }
 
 const CONTRACT_EXAMPLE: &str = r#"
@@ -42,15 +60,7 @@ zeta = 0.6
 
 #[test]
 fn json_carries_the_contract_fields() {
-    let dir = tempfile::tempdir().unwrap();
-    let case = write(dir.path(), "case.toml", CONTRACT_EXAMPLE);
-    let out = run(&["solve", &case, "--json"]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = solve_json("case.toml", CONTRACT_EXAMPLE, &[]);
     assert_eq!(v["status"], "ok");
     let mu = v["mu_cr"].as_f64().unwrap();
     let lf = v["load_factor"].as_f64().unwrap();
@@ -77,9 +87,7 @@ fn json_carries_the_contract_fields() {
 fn physical_uniform_moment_matches_the_closed_form() {
     // Forks, equal end moments: Mcr = (π/L)·√(E·Iz·G·It)·√(1 + κ²)
     // (Timoshenko & Gere 1961, §6.2), i.e. μ = π√(1+κ²) in the moment unit.
-    let dir = tempfile::tempdir().unwrap();
-    let case = write(
-        dir.path(),
+    let v = solve_json(
         "beam.toml",
         r#"
 length = "5 m"
@@ -99,18 +107,12 @@ kind = "end-moments"
 start = 100.0
 end = 100.0
 "#,
+        &["--tolerance", "1e-6"],
     );
-    let out = run(&["solve", &case, "--json", "--tolerance", "1e-6"]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
     let kappa = v["kappa"].as_f64().unwrap();
     let unit = v["moment_unit_knm"].as_f64().unwrap();
     let mcr = v["mcr"].as_f64().unwrap();
-    let exact = unit * PI * (1.0 + kappa * kappa).sqrt();
+    let exact = unit * mu0(kappa);
     assert!((mcr - exact).abs() < 2e-6 * exact, "{mcr} vs {exact}");
     // The loads at the critical factor: the end moments scaled to Mcr.
     let vals = v["loads_at_critical"][0]["values"].as_array().unwrap();
@@ -163,20 +165,13 @@ fn a_couple_is_accepted_where_twist_is_held_by_a_restraint() {
     // Twist at the end held by a restraint instead of the support: the
     // boundary term vanishes, so the uniform-moment closed form applies
     // (Timoshenko & Gere 1961, §6.2).
-    let dir = tempfile::tempdir().unwrap();
-    let case = write(
-        dir.path(),
+    let v = solve_json(
         "c.toml",
         "kappa = 1.0\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\ntwist = \"free\"\n[[restraint]]\nat = 1.0\ntwist = \"fixed\"\n[[load]]\nkind = \"end-moments\"\nstart = 1.0\nend = 1.0\n",
+        &[],
     );
-    let out = run(&["solve", &case, "--json"]);
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
-    let exact = PI * 2.0_f64.sqrt();
+    // μ0 at κ = 1: π·√2.
+    let exact = mu0(1.0);
     assert!((v["mu_cr"].as_f64().unwrap() - exact).abs() < 2e-4 * exact);
 }
 

@@ -10,16 +10,15 @@
 //!   heights: a gravity load at ζ reversed is an uplift at ζ, which by the
 //!   section's symmetry about its major axis is a gravity load at −ζ acting
 //!   on the member turned upside down (domain notes, "Axes and signs").
+//!
 //! Tolerance: twice the sum of the two error estimates.
 
+mod common;
+
+use common::{factor, point, udl};
 use ltb_atlas::model::{Load, Member, Support};
 use ltb_atlas::solve::{Settings, solve};
 use proptest::prelude::*;
-
-fn factor(m: &Member, s: &Settings) -> (f64, f64) {
-    let r = solve(m, s).unwrap().forward;
-    (r.load_factor.unwrap(), r.error_estimate)
-}
 
 fn supports() -> impl Strategy<Value = (Support, Support)> {
     prop_oneof![
@@ -36,8 +35,8 @@ proptest! {
     fn mirror_and_scale(kappa in 0.1f64..3.0, zeta in -1.0f64..1.0, at in 0.2f64..1.0, c in 0.1f64..10.0, sup in supports()) {
         let s = Settings::default();
         let (a, b) = sup;
-        let m = Member::new(kappa, a, b).with_load(Load::Point { at, fz: -1.0, zeta });
-        let mirrored = Member::new(kappa, b, a).with_load(Load::Point { at: 1.0 - at, fz: -1.0, zeta });
+        let m = Member::new(kappa, a, b).with_load(point(at, zeta));
+        let mirrored = Member::new(kappa, b, a).with_load(point(1.0 - at, zeta));
         let scaled = Member::new(kappa, a, b).with_load(Load::Point { at, fz: -c, zeta });
         let (l, e) = factor(&m, &s);
         let (lm, em) = factor(&mirrored, &s);
@@ -49,9 +48,8 @@ proptest! {
     #[test]
     fn reversed_equals_flipped_heights(kappa in 0.1f64..3.0, zeta in -1.0f64..1.0, sup in supports()) {
         let (a, b) = sup;
-        let m = Member::new(kappa, a, b).with_load(Load::Distributed { from: 0.0, to: 1.0, fz_from: -1.0, fz_to: -1.0, zeta });
-        let flipped = Member::new(kappa, a, b)
-            .with_load(Load::Distributed { from: 0.0, to: 1.0, fz_from: -1.0, fz_to: -1.0, zeta: -zeta });
+        let m = Member::new(kappa, a, b).with_load(udl(zeta));
+        let flipped = Member::new(kappa, a, b).with_load(udl(-zeta));
         let r = solve(&m, &Settings { reversed: true, ..Default::default() }).unwrap();
         let rev = r.reversed.unwrap();
         let (lf, ef) = factor(&flipped, &Settings::default());

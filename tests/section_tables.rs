@@ -24,17 +24,37 @@
 //! same names. Units converted at the boundary: cm² → mm², cm⁴ → mm⁴,
 //! dm⁶ → mm⁶.
 
+mod common;
+
+use common::rel_diff;
 use ltb_atlas::section::{Properties, Shape, properties};
 
-/// One published row: dimensions in mm, properties in table units.
-struct Row {
-    /// Designation and source tag.
-    name: &'static str,
+/// Dimensions of a rolled I-section in mm (h, b, tw, tf, r as the tables print them).
+struct Dims {
     h: f64,
     b: f64,
     tw: f64,
     tf: f64,
     r: f64,
+}
+
+/// Dimensions of the designations both [OB-UK] and [AM] list (the two give the same values).
+#[rustfmt::skip]
+mod dims {
+    use super::Dims;
+    pub const IPE_200: Dims = Dims { h: 200.0, b: 100.0, tw: 5.6, tf: 8.5, r: 12.0 };
+    pub const IPE_300: Dims = Dims { h: 300.0, b: 150.0, tw: 7.1, tf: 10.7, r: 15.0 };
+    pub const IPE_400: Dims = Dims { h: 400.0, b: 180.0, tw: 8.6, tf: 13.5, r: 21.0 };
+    pub const HE_200_A: Dims = Dims { h: 190.0, b: 200.0, tw: 6.5, tf: 10.0, r: 18.0 };
+    pub const HE_300_B: Dims = Dims { h: 300.0, b: 300.0, tw: 11.0, tf: 19.0, r: 27.0 };
+}
+
+/// One published row: dimensions in mm, properties in table units.
+struct Row {
+    /// Designation and source tag.
+    name: &'static str,
+    /// Dimensions in mm.
+    dims: Dims,
     /// A in cm².
     a: f64,
     /// Iy in cm⁴.
@@ -50,51 +70,51 @@ struct Row {
 #[rustfmt::skip]
 const UK_TABLES: &[Row] = &[
     // [OB-UK] IPE table, row IPE 200.
-    Row { name: "IPE 200 [OB-UK]", h: 200.0, b: 100.0, tw: 5.6, tf: 8.5, r: 12.0,
+    Row { name: "IPE 200 [OB-UK]", dims: dims::IPE_200,
           a: 28.5, iy: 1940.0, iz: 142.0, it: 6.92, iw: 0.0130 },
     // [OB-UK] IPE table, row IPE 300.
-    Row { name: "IPE 300 [OB-UK]", h: 300.0, b: 150.0, tw: 7.1, tf: 10.7, r: 15.0,
+    Row { name: "IPE 300 [OB-UK]", dims: dims::IPE_300,
           a: 53.8, iy: 8360.0, iz: 604.0, it: 19.9, iw: 0.126 },
     // [OB-UK] IPE table, row IPE 400.
-    Row { name: "IPE 400 [OB-UK]", h: 400.0, b: 180.0, tw: 8.6, tf: 13.5, r: 21.0,
+    Row { name: "IPE 400 [OB-UK]", dims: dims::IPE_400,
           a: 84.5, iy: 23100.0, iz: 1320.0, it: 51.3, iw: 0.490 },
     // [OB-UK] HE table, row HE 200 A.
-    Row { name: "HE 200 A [OB-UK]", h: 190.0, b: 200.0, tw: 6.5, tf: 10.0, r: 18.0,
+    Row { name: "HE 200 A [OB-UK]", dims: dims::HE_200_A,
           a: 53.8, iy: 3690.0, iz: 1340.0, it: 21.0, iw: 0.108 },
     // [OB-UK] HE table, row HE 300 B.
-    Row { name: "HE 300 B [OB-UK]", h: 300.0, b: 300.0, tw: 11.0, tf: 19.0, r: 27.0,
+    Row { name: "HE 300 B [OB-UK]", dims: dims::HE_300_B,
           a: 149.0, iy: 25200.0, iz: 8560.0, it: 189.0, iw: 1.69 },
     // [BB] Universal Beams table, row 305 x 165 x 40.
-    Row { name: "UB 305x165x40 [BB]", h: 303.4, b: 165.0, tw: 6.0, tf: 10.2, r: 8.9,
+    Row { name: "UB 305x165x40 [BB]", dims: Dims { h: 303.4, b: 165.0, tw: 6.0, tf: 10.2, r: 8.9 },
           a: 51.3, iy: 8500.0, iz: 764.0, it: 14.7, iw: 0.164 },
     // [BB] Universal Beams table, row 457 x 191 x 67.
-    Row { name: "UB 457x191x67 [BB]", h: 453.4, b: 189.9, tw: 8.5, tf: 12.7, r: 10.2,
+    Row { name: "UB 457x191x67 [BB]", dims: Dims { h: 453.4, b: 189.9, tw: 8.5, tf: 12.7, r: 10.2 },
           a: 85.5, iy: 29400.0, iz: 1450.0, it: 37.1, iw: 0.705 },
     // [BB] Universal Beams table, row 356 x 171 x 51.
-    Row { name: "UB 356x171x51 [BB]", h: 355.0, b: 171.5, tw: 7.4, tf: 11.5, r: 10.2,
+    Row { name: "UB 356x171x51 [BB]", dims: Dims { h: 355.0, b: 171.5, tw: 7.4, tf: 11.5, r: 10.2 },
           a: 64.9, iy: 14100.0, iz: 968.0, it: 23.8, iw: 0.286 },
     // [BS4] Corus BS 4 table, row 914 x 419 x 388 ([BB] gives the same to
     // 3 figures: 494, 720000, 45400, 1730, 88.9).
-    Row { name: "UB 914x419x388 [BS4]", h: 921.0, b: 420.5, tw: 21.4, tf: 36.6, r: 24.1,
+    Row { name: "UB 914x419x388 [BS4]", dims: Dims { h: 921.0, b: 420.5, tw: 21.4, tf: 36.6, r: 24.1 },
           a: 494.0, iy: 719600.0, iz: 45440.0, it: 1734.0, iw: 88.9 },
 ];
 
 #[rustfmt::skip]
 const AM_TABLES: &[Row] = &[
     // [AM] IPE 200.
-    Row { name: "IPE 200 [AM]", h: 200.0, b: 100.0, tw: 5.6, tf: 8.5, r: 12.0,
+    Row { name: "IPE 200 [AM]", dims: dims::IPE_200,
           a: 28.48, iy: 1943.0, iz: 142.4, it: 6.98, iw: f64::NAN },
     // [AM] IPE 300.
-    Row { name: "IPE 300 [AM]", h: 300.0, b: 150.0, tw: 7.1, tf: 10.7, r: 15.0,
+    Row { name: "IPE 300 [AM]", dims: dims::IPE_300,
           a: 53.81, iy: 8356.0, iz: 603.8, it: 20.12, iw: f64::NAN },
     // [AM] IPE 400.
-    Row { name: "IPE 400 [AM]", h: 400.0, b: 180.0, tw: 8.6, tf: 13.5, r: 21.0,
+    Row { name: "IPE 400 [AM]", dims: dims::IPE_400,
           a: 84.46, iy: 23130.0, iz: 1318.0, it: 51.08, iw: f64::NAN },
     // [AM] HE 200 A.
-    Row { name: "HE 200 A [AM]", h: 190.0, b: 200.0, tw: 6.5, tf: 10.0, r: 18.0,
+    Row { name: "HE 200 A [AM]", dims: dims::HE_200_A,
           a: 53.83, iy: 3692.0, iz: 1336.0, it: 20.98, iw: f64::NAN },
     // [AM] HE 300 B.
-    Row { name: "HE 300 B [AM]", h: 300.0, b: 300.0, tw: 11.0, tf: 19.0, r: 27.0,
+    Row { name: "HE 300 B [AM]", dims: dims::HE_300_B,
           a: 149.1, iy: 25170.0, iz: 8563.0, it: 185.0, iw: f64::NAN },
 ];
 
@@ -112,12 +132,13 @@ const AM_TOL: Tolerances = Tolerances([0.001, 0.001, 0.001, 0.03, 0.03]);
 const NAMES: [&str; 5] = ["A", "Iy", "Iz", "It", "Iw"];
 
 fn computed(row: &Row) -> Properties {
+    let d = &row.dims;
     properties(&Shape::I {
-        h: row.h,
-        b: row.b,
-        tf: row.tf,
-        tw: row.tw,
-        r: row.r,
+        h: d.h,
+        b: d.b,
+        tf: d.tf,
+        tw: d.tw,
+        r: d.r,
     })
     .unwrap_or_else(|e| panic!("{}: {e}", row.name))
 }
@@ -133,11 +154,7 @@ fn deviations(row: &Row) -> [f64; 5] {
         p.iw / 1e12,
     ];
     let want = [row.a, row.iy, row.iz, row.it, row.iw];
-    let mut d = [0.0; 5];
-    for k in 0..5 {
-        d[k] = (got[k] - want[k]) / want[k];
-    }
-    d
+    std::array::from_fn(|k| rel_diff(got[k], want[k]))
 }
 
 fn check(rows: &[Row], tol: &Tolerances) -> [f64; 5] {
@@ -194,7 +211,8 @@ fn rolled_sections_match_arcelormittal_data() {
 fn rolled_sections_are_doubly_symmetric() {
     for row in UK_TABLES {
         let p = computed(row);
-        let hs = row.h - row.tf;
+        let h = row.dims.h;
+        let hs = h - row.dims.tf;
         assert_eq!(p.zs, 0.0, "{}", row.name);
         assert_eq!(p.beta_y, 0.0, "{}", row.name);
         assert!(
@@ -202,14 +220,19 @@ fn rolled_sections_are_doubly_symmetric() {
             "{}",
             row.name
         );
-        assert!((p.top_flange - hs / 2.0).abs() < 1e-9, "{}", row.name);
-        assert!((p.bottom_flange + hs / 2.0).abs() < 1e-9, "{}", row.name);
-        assert!((p.top_surface - row.h / 2.0).abs() < 1e-9, "{}", row.name);
-        assert!(
-            (p.bottom_surface + row.h / 2.0).abs() < 1e-9,
-            "{}",
-            row.name
-        );
+        // Flange centroids at ±hs/2, surfaces at ±h/2 (mm), each to 1e-9.
+        for (what, got, want) in [
+            ("top flange", p.top_flange, hs / 2.0),
+            ("bottom flange", p.bottom_flange, -hs / 2.0),
+            ("top surface", p.top_surface, h / 2.0),
+            ("bottom surface", p.bottom_surface, -h / 2.0),
+        ] {
+            assert!(
+                (got - want).abs() < 1e-9,
+                "{} {what}: {got} vs {want}",
+                row.name
+            );
+        }
     }
 }
 
@@ -219,22 +242,9 @@ fn rolled_sections_are_doubly_symmetric() {
 #[test]
 fn monosymmetric_section_between_parents() {
     let (h, tw, r) = (400.0, 8.6, 21.0);
-    let small = properties(&Shape::I {
-        h,
-        b: 180.0,
-        tf: 13.5,
-        tw,
-        r,
-    })
-    .unwrap();
-    let big = properties(&Shape::I {
-        h,
-        b: 300.0,
-        tf: 19.0,
-        tw,
-        r,
-    })
-    .unwrap();
+    let parent = |b: f64, tf: f64| properties(&Shape::I { h, b, tf, tw, r }).unwrap();
+    let small = parent(180.0, 13.5);
+    let big = parent(300.0, 19.0);
     let m = properties(&Shape::MonoI {
         h,
         b_top: 300.0,

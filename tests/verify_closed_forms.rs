@@ -38,7 +38,10 @@
 //! for 1e-8 must still return a value within 1e-6, whatever status it reports. The
 //! published 4-digit value 5.2921 is checked to half a unit of its last digit.
 
-use ltb_atlas::model::{Axial, Load, Member, Support};
+mod common;
+
+use common::{fork_column, mu0, rel};
+use ltb_atlas::model::{Load, Member, Support};
 use ltb_atlas::solve::{Direction, Settings, Status, solve};
 use std::f64::consts::PI;
 
@@ -65,11 +68,12 @@ fn uniform_moment(kappa: f64, delta: f64, m: f64) -> Member {
 /// A result good enough for a 1e-6 comparison: a factor, with an estimate ≤ 1e-6 (status Ok, or
 /// not-converged when the 1e-7 request sits below the solver's round-off level).
 fn certified(d: &Direction) -> bool {
-    d.load_factor.is_some() && d.status != Status::NoBuckling && d.error_estimate <= 1e-6
+    common::certified(d, 1e-6)
 }
 
-fn rel(a: f64, b: f64) -> f64 {
-    (a - b).abs() / b.abs()
+/// Largest |x| of a mode field.
+fn max_abs(xs: &[f64]) -> f64 {
+    xs.iter().fold(0.0_f64, |a, x| a.max(x.abs()))
 }
 
 #[test]
@@ -77,7 +81,7 @@ fn uniform_moment_forks_equals_pi_sqrt_one_plus_kappa_squared() {
     for kappa in [0.02, 0.1, 0.5, 1.0, 2.0, 3.0, 10.0] {
         let sol = solve(&uniform_moment(kappa, 0.0, 1.0), &tight()).expect("solve");
         let f = &sol.forward;
-        let exact = PI * (1.0 + kappa * kappa).sqrt();
+        let exact = mu0(kappa);
         let mu = f.mu_cr.expect("buckles");
         println!(
             "uniform moment κ = {kappa}: μ = {mu:.10}, exact {exact:.10}, rel {:.2e}, est {:.1e}, {:?}",
@@ -216,13 +220,7 @@ fn euler_column_with_forks() {
     for (kappa, rho) in [(0.0, 0.0), (1.0, 0.0), (1.0, 1.0)] {
         // Set-up check: the torsional load π²(1+κ²)/rho² (infinite for rho = 0) is above π².
         assert!(rho == 0.0 || PI * PI * (1.0 + kappa * kappa) / (rho * rho) > PI * PI);
-        let mut m = Member::new(kappa, Support::FORK, Support::FORK);
-        m.axial = Some(Axial {
-            n: 1.0,
-            zeta_centroid: 0.0,
-            rho,
-        });
-        let s = solve(&m, &tight()).unwrap();
+        let s = solve(&fork_column(kappa, 1.0, 0.0, rho), &tight()).unwrap();
         let f = &s.forward;
         let lf = f.load_factor.expect("column buckles");
         assert!(certified(f));
@@ -234,8 +232,7 @@ fn euler_column_with_forks() {
         );
         // Mode is pure lateral bending: no twist (z_c = 0 decouples v and φ).
         let mode = f.mode.as_ref().unwrap();
-        let vmax = mode.v.iter().fold(0.0_f64, |a, x| a.max(x.abs()));
-        let pmax = mode.phi.iter().fold(0.0_f64, |a, x| a.max(x.abs()));
+        let (vmax, pmax) = (max_abs(&mode.v), max_abs(&mode.phi));
         assert!(
             pmax <= 1e-6 * vmax,
             "Euler mode has twist: |φ|max = {pmax}, |v|max = {vmax}"
@@ -249,13 +246,7 @@ fn torsional_column_with_forks() {
     // from memory). In the model's units (z_c = 0, ρ̂ = rho/π): N̄ = (1 + κ²)/ρ̂² = π²(1+κ²)/rho².
     // rho is chosen so that N̄ < π² (torsion governs): rho² > 1 + κ².
     for (kappa, rho) in [(0.0, 1.6), (0.5, 2.0), (2.0, 3.0)] {
-        let mut m = Member::new(kappa, Support::FORK, Support::FORK);
-        m.axial = Some(Axial {
-            n: 1.0,
-            zeta_centroid: 0.0,
-            rho,
-        });
-        let s = solve(&m, &tight()).unwrap();
+        let s = solve(&fork_column(kappa, 1.0, 0.0, rho), &tight()).unwrap();
         let f = &s.forward;
         let lf = f.load_factor.unwrap();
         let exact = PI * PI * (1.0 + kappa * kappa) / (rho * rho);
@@ -266,7 +257,7 @@ fn torsional_column_with_forks() {
             "κ = {kappa}, rho = {rho}: N = {lf}, torsional {exact}"
         );
         let mode = f.mode.as_ref().unwrap();
-        let vmax = mode.v.iter().fold(0.0_f64, |a, x| a.max(x.abs()));
+        let vmax = max_abs(&mode.v);
         assert!(
             vmax <= 1e-6,
             "torsional mode must not bend: |v|max = {vmax}"
@@ -281,13 +272,7 @@ fn flexural_torsional_column_singly_symmetric() {
     // between centroid and shear centre and r₀² = ρ² + z₀² the polar radius about the shear centre.
     // Dimensionless: N_z = π², N_t = (1 + κ²)/r₀², lengths ẑc = zeta_centroid/π, ρ̂ = rho/π.
     for (kappa, zc, rho) in [(0.5, 0.8, 1.2), (1.0, -1.5, 2.0), (0.2, 2.0, 0.5)] {
-        let mut m = Member::new(kappa, Support::FORK, Support::FORK);
-        m.axial = Some(Axial {
-            n: 1.0,
-            zeta_centroid: zc,
-            rho,
-        });
-        let s = solve(&m, &tight()).unwrap();
+        let s = solve(&fork_column(kappa, 1.0, zc, rho), &tight()).unwrap();
         let lf = s.forward.load_factor.unwrap();
         let (z, r) = (zc / PI, rho / PI);
         let r0 = r * r + z * z;

@@ -24,50 +24,28 @@
 //! Tolerance: 1e-9 relative (both paths solve the same matrices in double precision; the systems are
 //! small and well conditioned, so agreement is limited only by the iteration's own convergence).
 
+mod common;
+
+use common::{cantilever_tip, propped_cantilever, simple_span_uniform};
 use ltb_atlas::eigen::{self, Outcome};
 use ltb_atlas::fe::{assembly, inplane, mesh};
 use ltb_atlas::linalg::dense;
-use ltb_atlas::model::{
-    Axial, ContinuousRestraint, Fixity, Load, Member, PointSupport, Restraint, Support,
-};
+use ltb_atlas::model::{Axial, ContinuousRestraint, Load, Member, PointSupport, Support};
 use ltb_atlas::solve::{Settings, Status, solve};
 
 fn cases() -> Vec<(&'static str, Member)> {
-    let udl = |z: f64| Load::Distributed {
-        from: 0.0,
-        to: 1.0,
-        fz_from: -1.0,
-        fz_to: -1.0,
-        zeta: z,
-    };
     let mut mono = Member::new(0.8, Support::FORK, Support::FORK).with_load(Load::EndMoments {
         start: 1.0,
         end: -0.5,
     });
     mono.delta = 0.2;
-    let propped = Member::new(0.7, Support::BUILT_IN, Support::FORK)
-        .with_load(Load::Point {
-            at: 0.3,
-            fz: -1.0,
-            zeta: 0.4,
-        })
-        .with_load(Load::EndMoments {
-            start: 0.0,
-            end: 0.3,
-        })
-        .with_restraint(Restraint {
-            at: 0.6,
-            zeta: 0.5,
-            lateral: Fixity::Spring(20.0),
-            twist: Fixity::Free,
-        });
-    let mut column = Member::new(0.5, Support::FORK, Support::FORK).with_load(udl(0.2));
+    let mut column = simple_span_uniform(0.5, 0.2);
     column.axial = Some(Axial {
         n: 2.0,
         zeta_centroid: 0.8,
         rho: 1.2,
     });
-    let mut sheeted = Member::new(1.0, Support::FORK, Support::FORK).with_load(udl(1.0));
+    let mut sheeted = simple_span_uniform(1.0, 1.0);
     sheeted.continuous.push(ContinuousRestraint {
         from: 0.0,
         to: 1.0,
@@ -75,7 +53,7 @@ fn cases() -> Vec<(&'static str, Member)> {
         lateral: 5.0,
         twist: 0.5,
     });
-    let mut two_span = Member::new(0.6, Support::FORK, Support::FORK).with_load(udl(0.6));
+    let mut two_span = simple_span_uniform(0.6, 0.6);
     two_span.supports.push(PointSupport {
         at: 0.5,
         support: Support::FORK,
@@ -83,18 +61,14 @@ fn cases() -> Vec<(&'static str, Member)> {
     vec![
         (
             "simple span, uniform load ζ = κ = 0.5",
-            Member::new(0.5, Support::FORK, Support::FORK).with_load(udl(0.5)),
+            simple_span_uniform(0.5, 0.5),
         ),
-        (
-            "cantilever, tip load ζ = κ = 1",
-            Member::new(1.0, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta: 1.0,
-            }),
-        ),
+        ("cantilever, tip load ζ = κ = 1", cantilever_tip(1.0, 1.0)),
         ("end moments ψ = −0.5, κ = 0.8, δ = 0.2", mono),
-        ("propped cantilever, spring at a height", propped),
+        (
+            "propped cantilever, spring at a height",
+            propped_cantilever(),
+        ),
         ("beam-column, offset centroid", column),
         ("continuous restraint at ζ = 1", sheeted),
         ("two spans, uniform load ζ = 0.6", two_span),

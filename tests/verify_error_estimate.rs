@@ -32,8 +32,14 @@
 //!
 //! Tolerance: true error ≤ estimate exactly (no slack), estimate ≤ 1e-4.
 
+mod common;
+
+use common::{
+    cantilever_tip, cantilever_uniform, par_map, report_failures, simple_span_central_point,
+    simple_span_uniform, uniform_moment, with_warping_free_root,
+};
 use ltb_atlas::fe::mesh::MeshControls;
-use ltb_atlas::model::{Fixity, Load, Member, Support};
+use ltb_atlas::model::{Load, Member, Support};
 use ltb_atlas::solve::{Direction, Settings, Status, solve};
 
 const KAPPAS: [f64; 6] = [0.02, 0.05, 0.1, 0.3, 1.0, 3.0];
@@ -64,52 +70,20 @@ const PATTERNS: [Pattern; 7] = [
 ];
 
 fn member(p: Pattern, kappa: f64, zeta: f64) -> Member {
-    let udl = Load::Distributed {
-        from: 0.0,
-        to: 1.0,
-        fz_from: -1.0,
-        fz_to: -1.0,
-        zeta,
-    };
-    let mut free_root = Support::BUILT_IN;
-    free_root.warping = Fixity::Free;
     match p {
-        Pattern::UniformMoment => {
-            Member::new(kappa, Support::FORK, Support::FORK).with_load(Load::EndMoments {
-                start: 1.0,
-                end: 1.0,
-            })
-        }
+        Pattern::UniformMoment => uniform_moment(kappa),
         Pattern::EndMomentsPsiMinusHalf => Member::new(kappa, Support::FORK, Support::FORK)
             .with_load(Load::EndMoments {
                 start: 1.0,
                 end: -0.5,
             }),
-        Pattern::SimpleSpanUniform => {
-            Member::new(kappa, Support::FORK, Support::FORK).with_load(udl)
+        Pattern::SimpleSpanUniform => simple_span_uniform(kappa, zeta),
+        Pattern::SimpleSpanCentralPoint => simple_span_central_point(kappa, zeta),
+        Pattern::CantileverTip => cantilever_tip(kappa, zeta),
+        Pattern::CantileverUniform => cantilever_uniform(kappa, zeta),
+        Pattern::CantileverTipWarpingFreeRoot => {
+            with_warping_free_root(cantilever_tip(kappa, zeta))
         }
-        Pattern::SimpleSpanCentralPoint => Member::new(kappa, Support::FORK, Support::FORK)
-            .with_load(Load::Point {
-                at: 0.5,
-                fz: -1.0,
-                zeta,
-            }),
-        Pattern::CantileverTip => {
-            Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta,
-            })
-        }
-        Pattern::CantileverUniform => {
-            Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(udl)
-        }
-        Pattern::CantileverTipWarpingFreeRoot => Member::new(kappa, free_root, Support::FREE)
-            .with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta,
-            }),
     }
 }
 
@@ -185,25 +159,10 @@ fn reference(m: &Member) -> Option<(&'static str, Direction)> {
     best
 }
 
-/// Run `f` over the grid on two threads (the suite's budget is two cores).
-fn par_map<T: Send>(
-    items: &[(Pattern, f64, f64)],
-    f: impl Fn(Pattern, f64, f64) -> T + Sync,
-) -> Vec<T> {
-    let half = items.len().div_ceil(2);
-    let (a, b) = items.split_at(half);
-    std::thread::scope(|s| {
-        let h = s.spawn(|| b.iter().map(|&(p, k, z)| f(p, k, z)).collect::<Vec<T>>());
-        let mut out: Vec<T> = a.iter().map(|&(p, k, z)| f(p, k, z)).collect();
-        out.extend(h.join().unwrap());
-        out
-    })
-}
-
 #[test]
 fn error_estimate_bounds_the_true_error() {
     let cases = grid();
-    let results = par_map(&cases, |p, k, z| {
+    let results = par_map(&cases, |&(p, k, z)| {
         let m = member(p, k, z);
         let def = solve(&m, &Settings::default());
         let r = reference(&m);
@@ -280,15 +239,7 @@ fn error_estimate_bounds_the_true_error() {
         "max (|true| + reference estimate)/estimate = {:.3} at {}",
         worst_conservative.0, worst_conservative.1
     );
-    for f in &failures {
-        println!("FAIL {f}");
-    }
-    assert!(
-        failures.is_empty(),
-        "{} failing cases:\n{}",
-        failures.len(),
-        failures.join("\n")
-    );
+    report_failures(&failures);
 }
 
 #[test]
@@ -297,7 +248,7 @@ fn tight_reference_request_returns_a_result() {
     // (status Ok or NotConverged with an estimate), never in a solver error. Common practice,
     // no source: an unattainable tolerance is reported, not failed.
     let cases = grid();
-    let results = par_map(&cases, |p, k, z| {
+    let results = par_map(&cases, |&(p, k, z)| {
         (
             p,
             k,
@@ -321,13 +272,5 @@ fn tight_reference_request_returns_a_result() {
         failures.len(),
         cases.len()
     );
-    for f in &failures {
-        println!("FAIL {f}");
-    }
-    assert!(
-        failures.is_empty(),
-        "{} failing cases:\n{}",
-        failures.len(),
-        failures.join("\n")
-    );
+    report_failures(&failures);
 }

@@ -28,27 +28,25 @@
 //! "about 0.76" / "1.18" to ±0.005; "near κ = 0.8" / "near κ = 0.45" as a sign change of
 //! (ratio − 1) between κ ± 0.05; "about +100 %" as 2.0 ± 0.1; "11–14 %" as 1.105 … 1.145.
 
-use ltb_atlas::model::{Fixity, Load, Member, Support};
-use ltb_atlas::solve::{Settings, Solution, Status, solve};
-use std::f64::consts::PI;
+mod common;
+
+use common::{cantilever_tip, fork_major_axis_fixed, mu0, point, solved, with_warping_free_root};
+use ltb_atlas::model::Member;
+use ltb_atlas::solve::{Settings, Solution, Status};
 
 fn run(m: &Member) -> Solution {
-    let s = solve(m, &Settings::default())
-        .unwrap_or_else(|e| panic!("solve failed: {e}\n  member {m:?}"));
+    let s = solved(m, &Settings::default());
     assert_eq!(s.forward.status, Status::Ok, "not converged: {m:?}");
     s
 }
 
 fn tip_cantilever(kappa: f64, zeta: f64, warping_fixed_root: bool) -> Member {
-    let mut root = Support::BUILT_IN;
-    if !warping_fixed_root {
-        root.warping = Fixity::Free;
+    let m = cantilever_tip(kappa, zeta);
+    if warping_fixed_root {
+        m
+    } else {
+        with_warping_free_root(m)
     }
-    Member::new(kappa, root, Support::FREE).with_load(Load::Point {
-        at: 1.0,
-        fz: -1.0,
-        zeta,
-    })
 }
 
 fn mu(m: &Member) -> (f64, f64) {
@@ -56,9 +54,10 @@ fn mu(m: &Member) -> (f64, f64) {
     (s.forward.mu_cr.unwrap(), s.forward.error_estimate)
 }
 
-/// AISC 360 F2-4 with Cb = 1 and Lb = L, in the project's parameters (reference-values §4).
+/// AISC 360 F2-4 with Cb = 1 and Lb = L, in the project's parameters (reference-values §4):
+/// the exact fork value μ0 = π·√(1 + κ²).
 fn aisc_cb1(kappa: f64) -> f64 {
-    PI * (1.0 + kappa * kappa).sqrt()
+    mu0(kappa)
 }
 
 #[test]
@@ -127,14 +126,9 @@ fn aisc_cb_f1_1_fixed_ended_central_point_load() {
     // Reference-values §4: Cb (AISC 360 Eq. F1-1) is unconservative by 11–14 % for a central
     // point load on a beam with major-axis fixed ends and forks laterally; compared with the
     // FE's C1 = μcr/μ0 (domain notes, three-factor form). κ = 0.02, 0.5, 1, 2; load at ζ = 0.
-    let mut end = Support::FORK;
-    end.in_plane_rotation = Fixity::Fixed;
+    let end = fork_major_axis_fixed();
     for kappa in [0.02, 0.5, 1.0, 2.0] {
-        let m = Member::new(kappa, end, end).with_load(Load::Point {
-            at: 0.5,
-            fz: -1.0,
-            zeta: 0.0,
-        });
+        let m = Member::new(kappa, end, end).with_load(point(0.5, 0.0));
         let s = run(&m);
         let mf = &s.moments;
         let (mmax, ma, mb, mc) = (

@@ -35,20 +35,23 @@
 //! upper bound within its estimate of the exact one); the convergence order must lie in
 //! [3.5, 4.5] (Hermite cubics: h⁴, domain notes).
 
+mod common;
+
+use common::{
+    cantilever_tip, cantilever_uniform, certified, mu0, point, simple_span_central_point,
+    simple_span_uniform, solved, uniform_moment,
+};
 use ltb_atlas::fe::mesh::MeshControls;
 use ltb_atlas::model::{Axial, Fixity, Load, Member, Restraint, Support};
 use ltb_atlas::solve::{Direction, Settings, Status, solve};
-use std::f64::consts::PI;
 
 fn run(m: &Member, s: &Settings) -> Direction {
-    let d = solve(m, s)
-        .unwrap_or_else(|e| panic!("solve failed: {e}\n  member {m:?}\n  settings {s:?}"))
-        .forward;
+    let d = solved(m, s).forward;
     // Comparisons below use each result's own estimate, so a not-converged status (a tight
     // request below the round-off level) is acceptable if the estimate is at least as good as a
     // default solve's.
     assert!(
-        d.load_factor.is_some() && d.status != Status::NoBuckling && d.error_estimate <= 1e-4,
+        certified(&d, 1e-4),
         "{:?}, estimate {:.1e}: {m:?}",
         d.status,
         d.error_estimate
@@ -66,30 +69,16 @@ fn agree(a: &Direction, b: &Direction) -> bool {
     (la - lb).abs() <= (a.error_estimate.max(b.error_estimate) + 1e-9) * la.max(lb)
 }
 
+/// The shared propped cantilever (κ = 0.7; point load, end moment, spring at a height) plus a
+/// linearly varying load from 0.1 to 0.8 at ζ = −0.2 and monosymmetry δ = 0.1 (header sketch).
 fn propped_cantilever() -> Member {
-    let mut m = Member::new(0.7, Support::BUILT_IN, Support::FORK)
-        .with_load(Load::Point {
-            at: 0.3,
-            fz: -1.0,
-            zeta: 0.4,
-        })
-        .with_load(Load::Distributed {
-            from: 0.1,
-            to: 0.8,
-            fz_from: -0.5,
-            fz_to: -2.0,
-            zeta: -0.2,
-        })
-        .with_load(Load::EndMoments {
-            start: 0.0,
-            end: 0.3,
-        })
-        .with_restraint(Restraint {
-            at: 0.6,
-            zeta: 0.5,
-            lateral: Fixity::Spring(20.0),
-            twist: Fixity::Free,
-        });
+    let mut m = common::propped_cantilever().with_load(Load::Distributed {
+        from: 0.1,
+        to: 0.8,
+        fz_from: -0.5,
+        fz_to: -2.0,
+        zeta: -0.2,
+    });
     m.delta = 0.1;
     m
 }
@@ -109,30 +98,17 @@ fn scaling_the_loads_scales_the_factor() {
     for c in [3.7, 0.05] {
         let mut m = base.clone();
         for l in m.loads.iter_mut() {
-            *l = match *l {
-                Load::Point { at, fz, zeta } => Load::Point {
-                    at,
-                    fz: c * fz,
-                    zeta,
-                },
-                Load::Distributed {
-                    from,
-                    to,
-                    fz_from,
-                    fz_to,
-                    zeta,
-                } => Load::Distributed {
-                    from,
-                    to,
-                    fz_from: c * fz_from,
-                    fz_to: c * fz_to,
-                    zeta,
-                },
-                Load::EndMoments { start, end } => Load::EndMoments {
-                    start: c * start,
-                    end: c * end,
-                },
-            };
+            match l {
+                Load::Point { fz, .. } => *fz *= c,
+                Load::Distributed { fz_from, fz_to, .. } => {
+                    *fz_from *= c;
+                    *fz_to *= c;
+                }
+                Load::EndMoments { start, end } => {
+                    *start *= c;
+                    *end *= c;
+                }
+            }
         }
         m.axial.as_mut().unwrap().n *= c;
         let d = run(&m, &s);
@@ -160,31 +136,21 @@ fn mirror(m: &Member) -> Member {
         (g.from, g.to) = (1.0 - g.to, 1.0 - g.from);
     }
     for l in r.loads.iter_mut() {
-        *l = match *l {
-            Load::Point { at, fz, zeta } => Load::Point {
-                at: 1.0 - at,
-                fz,
-                zeta,
-            },
+        match l {
+            Load::Point { at, .. } => *at = 1.0 - *at,
             Load::Distributed {
                 from,
                 to,
                 fz_from,
                 fz_to,
-                zeta,
-            } => Load::Distributed {
-                from: 1.0 - to,
-                to: 1.0 - from,
-                fz_from: fz_to,
-                fz_to: fz_from,
-                zeta,
-            },
+                ..
+            } => {
+                (*from, *to) = (1.0 - *to, 1.0 - *from);
+                std::mem::swap(fz_from, fz_to);
+            }
             // Sagging stays sagging: the end moments swap ends.
-            Load::EndMoments { start, end } => Load::EndMoments {
-                start: end,
-                end: start,
-            },
-        };
+            Load::EndMoments { start, end } => std::mem::swap(start, end),
+        }
     }
     r
 }
@@ -211,11 +177,7 @@ fn mirrored_member_has_the_same_factor() {
             m
         },
         // Off-centre point load on the top flange, κ = 0.4.
-        Member::new(0.4, Support::FORK, Support::FORK).with_load(Load::Point {
-            at: 0.25,
-            fz: -1.0,
-            zeta: 0.4,
-        }),
+        Member::new(0.4, Support::FORK, Support::FORK).with_load(point(0.25, 0.4)),
     ];
     for m in cases {
         let a = run(&m, &s);
@@ -247,18 +209,8 @@ fn finer_starting_mesh_gives_the_same_converged_factor() {
     };
     let cases = [
         propped_cantilever(),
-        Member::new(0.15, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-            at: 1.0,
-            fz: -1.0,
-            zeta: 0.15,
-        }),
-        Member::new(2.0, Support::FORK, Support::FORK).with_load(Load::Distributed {
-            from: 0.0,
-            to: 1.0,
-            fz_from: -1.0,
-            fz_to: -1.0,
-            zeta: -1.0,
-        }),
+        cantilever_tip(0.15, 0.15),
+        simple_span_uniform(2.0, -1.0),
     ];
     for m in cases {
         let a = run(&m, &s);
@@ -286,29 +238,12 @@ fn gravity_load_height_orders_the_factor() {
     // λ(top) < λ(shear centre) < λ(bottom); κ = 0.3, 1, 2.
     let s = Settings::default();
     for kappa in [0.3, 1.0, 2.0] {
-        let loads: [fn(f64) -> Load; 2] = [
-            |z| Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: z,
-            },
-            |z| Load::Point {
-                at: 0.5,
-                fz: -1.0,
-                zeta: z,
-            },
-        ];
-        for load in loads {
+        // Uniform load and central point load, forks at both ends.
+        let spans: [fn(f64, f64) -> Member; 2] = [simple_span_uniform, simple_span_central_point];
+        for span in spans {
             let l: Vec<Direction> = [kappa, 0.0, -kappa]
                 .iter()
-                .map(|&z| {
-                    run(
-                        &Member::new(kappa, Support::FORK, Support::FORK).with_load(load(z)),
-                        &s,
-                    )
-                })
+                .map(|&z| run(&span(kappa, z), &s))
                 .collect();
             let (top, sc, bot) = (lf(&l[0]), lf(&l[1]), lf(&l[2]));
             println!("κ = {kappa}: top {top:.4} < shear centre {sc:.4} < bottom {bot:.4}");
@@ -321,47 +256,58 @@ fn gravity_load_height_orders_the_factor() {
     }
 }
 
+/// Factors (none, top, bottom) of `base` without a restraint and with a rigid lateral restraint at
+/// `at` on the top flange (ζr = +κ) and on the bottom flange (ζr = −κ), printed under `label`.
+/// Asserts the two checks both restraint tests make: the top-flange restraint beats the bottom one
+/// beyond its estimate (source named by each caller), and the bottom one does not lower the factor.
+fn flange_restraints(label: &str, kappa: f64, base: &Member, at: f64) -> (f64, f64, f64) {
+    let s = Settings::default();
+    let restrained = |zr: f64| {
+        base.clone().with_restraint(Restraint {
+            at,
+            zeta: zr,
+            lateral: Fixity::Fixed,
+            twist: Fixity::Free,
+        })
+    };
+    let (none, top, bot) = (
+        run(base, &s),
+        run(&restrained(kappa), &s),
+        run(&restrained(-kappa), &s),
+    );
+    println!(
+        "{label} κ = {kappa}: none {:.4}, top-flange restraint {:.4}, bottom-flange restraint {:.4}",
+        lf(&none),
+        lf(&top),
+        lf(&bot)
+    );
+    assert!(
+        lf(&top) > lf(&bot) * (1.0 + bot.error_estimate),
+        "κ = {kappa}: top {} vs bottom {}",
+        lf(&top),
+        lf(&bot)
+    );
+    // Rayleigh (common practice, no source): a restraint never lowers the factor.
+    assert!(
+        lf(&bot) >= lf(&none) * (1.0 - none.error_estimate),
+        "κ = {kappa}: a restraint lowered the factor"
+    );
+    (lf(&none), lf(&top), lf(&bot))
+}
+
 #[test]
 fn top_flange_tip_restraint_beats_bottom_flange_on_a_cantilever() {
     // Domain notes ("Discretisation facts"): in a cantilever under gravity load the tension (top)
     // flange at the tip moves most, so a tip restraint on the top flange is far more effective.
     // κ = 0.5 and 1, tip load on the top flange (ζ = κ), lateral restraint at the tip at ζr = ±κ.
     // Rayleigh (common practice, no source): a restraint never lowers the factor.
-    let s = Settings::default();
     for kappa in [0.5, 1.0] {
-        let base = Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-            at: 1.0,
-            fz: -1.0,
-            zeta: kappa,
-        });
-        let at = |zr: f64| {
-            base.clone().with_restraint(Restraint {
-                at: 1.0,
-                zeta: zr,
-                lateral: Fixity::Fixed,
-                twist: Fixity::Free,
-            })
-        };
-        let (none, top, bot) = (run(&base, &s), run(&at(kappa), &s), run(&at(-kappa), &s));
-        println!(
-            "cantilever κ = {kappa}: none {:.4}, top-flange restraint {:.4}, bottom-flange restraint {:.4}",
-            lf(&none),
-            lf(&top),
-            lf(&bot)
-        );
-        assert!(
-            lf(&top) > lf(&bot) * (1.0 + bot.error_estimate),
-            "κ = {kappa}: top {} vs bottom {}",
-            lf(&top),
-            lf(&bot)
-        );
-        assert!(
-            lf(&bot) >= lf(&none) * (1.0 - none.error_estimate),
-            "κ = {kappa}: a restraint lowered the factor"
-        );
+        // Top beats bottom (domain notes) and no restraint lowers the factor (Rayleigh).
+        let (none, top, bot) =
+            flange_restraints("cantilever", kappa, &cantilever_tip(kappa, kappa), 1.0);
         // "Far more effective": the top restraint at least doubles the gain of the bottom one.
         assert!(
-            lf(&top) - lf(&none) > 2.0 * (lf(&bot) - lf(&none)),
+            top - none > 2.0 * (bot - none),
             "κ = {kappa}: gains not far apart"
         );
     }
@@ -372,40 +318,9 @@ fn top_flange_midspan_restraint_beats_bottom_flange_on_a_sagging_span() {
     // Common practice, no source (same mechanism as the domain notes' cantilever statement): under
     // sagging the top flange is in compression and moves most, so a midspan lateral restraint at
     // ζr = +κ raises the factor more than one at −κ. Uniform load at the shear centre, κ = 0.5, 1.
-    let s = Settings::default();
     for kappa in [0.5, 1.0] {
-        let base = Member::new(kappa, Support::FORK, Support::FORK).with_load(Load::Distributed {
-            from: 0.0,
-            to: 1.0,
-            fz_from: -1.0,
-            fz_to: -1.0,
-            zeta: 0.0,
-        });
-        let at = |zr: f64| {
-            base.clone().with_restraint(Restraint {
-                at: 0.5,
-                zeta: zr,
-                lateral: Fixity::Fixed,
-                twist: Fixity::Free,
-            })
-        };
-        let (none, top, bot) = (run(&base, &s), run(&at(kappa), &s), run(&at(-kappa), &s));
-        println!(
-            "span κ = {kappa}: none {:.4}, top-flange restraint {:.4}, bottom-flange restraint {:.4}",
-            lf(&none),
-            lf(&top),
-            lf(&bot)
-        );
-        assert!(
-            lf(&top) > lf(&bot) * (1.0 + bot.error_estimate),
-            "κ = {kappa}: top {} vs bottom {}",
-            lf(&top),
-            lf(&bot)
-        );
-        assert!(
-            lf(&bot) >= lf(&none) * (1.0 - none.error_estimate),
-            "κ = {kappa}: a restraint lowered the factor"
-        );
+        // Top beats bottom (common practice, as above) and no restraint lowers the factor.
+        flange_restraints("span", kappa, &simple_span_uniform(kappa, 0.0), 0.5);
     }
 }
 
@@ -430,14 +345,10 @@ fn smooth_modes_converge_as_h_to_the_fourth() {
     };
     // Uniform moment with forks: exact μ = π√(1+κ²) (Timoshenko & Gere 1961 §6.2); κ = 0.5, 2.
     for kappa in [0.5, 2.0] {
-        let m = Member::new(kappa, Support::FORK, Support::FORK).with_load(Load::EndMoments {
-            start: 1.0,
-            end: 1.0,
-        });
-        let d = solve(&m, &s).unwrap().forward;
+        let d = solve(&uniform_moment(kappa), &s).unwrap().forward;
         let h: Vec<usize> = d.history.iter().map(|x| x.0).collect();
         assert_eq!(h, vec![4, 8, 16], "uniform meshes expected");
-        let p = orders(&d.history, PI * (1.0 + kappa * kappa).sqrt());
+        let p = orders(&d.history, mu0(kappa));
         println!("uniform moment κ = {kappa}: orders {p:.3?}");
         for q in p {
             assert!((3.5..=4.5).contains(&q), "κ = {kappa}: observed order {q}");
@@ -445,13 +356,7 @@ fn smooth_modes_converge_as_h_to_the_fourth() {
     }
     // Uniform load at the shear centre with forks (smooth M, no layer); reference from a solve at
     // tolerance 1e-7 (its error is < 1 % of the 16-element error). κ = 1.
-    let m = Member::new(1.0, Support::FORK, Support::FORK).with_load(Load::Distributed {
-        from: 0.0,
-        to: 1.0,
-        fz_from: -1.0,
-        fz_to: -1.0,
-        zeta: 0.0,
-    });
+    let m = simple_span_uniform(1.0, 0.0);
     let reference = lf(&run(
         &m,
         &Settings {
@@ -476,68 +381,27 @@ fn reversed_load_at_height_equals_forward_load_at_minus_height() {
         reversed: true,
         ..Default::default()
     };
-    let cases: Vec<(Member, Member)> = vec![
+    // Each case as a function of the sign of its heights: (ζ, −ζ) = (case(1), case(−1)).
+    let cases: [fn(f64) -> Member; 3] = [
         // Cantilever, κ = 1, tip load on the top flange (ζ = +κ) vs bottom flange.
-        (
-            Member::new(1.0, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta: 1.0,
-            }),
-            Member::new(1.0, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta: -1.0,
-            }),
-        ),
+        |sign| cantilever_tip(1.0, sign * 1.0),
         // Cantilever, κ = 0.3, uniform load at ζ = 0.5 vs −0.5.
-        (
-            Member::new(0.3, Support::BUILT_IN, Support::FREE).with_load(Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: 0.5,
-            }),
-            Member::new(0.3, Support::BUILT_IN, Support::FREE).with_load(Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: -0.5,
-            }),
-        ),
+        |sign| cantilever_uniform(0.3, sign * 0.5),
         // Simple span, κ = 0.8, point load at ζ = 0.8 plus uniform load at ζ = −0.3.
-        (
+        |sign| {
             Member::new(0.8, Support::FORK, Support::FORK)
-                .with_load(Load::Point {
-                    at: 0.4,
-                    fz: -1.0,
-                    zeta: 0.8,
-                })
+                .with_load(point(0.4, sign * 0.8))
                 .with_load(Load::Distributed {
                     from: 0.0,
                     to: 1.0,
                     fz_from: -0.5,
                     fz_to: -0.5,
-                    zeta: -0.3,
-                }),
-            Member::new(0.8, Support::FORK, Support::FORK)
-                .with_load(Load::Point {
-                    at: 0.4,
-                    fz: -1.0,
-                    zeta: -0.8,
+                    zeta: sign * -0.3,
                 })
-                .with_load(Load::Distributed {
-                    from: 0.0,
-                    to: 1.0,
-                    fz_from: -0.5,
-                    fz_to: -0.5,
-                    zeta: 0.3,
-                }),
-        ),
+        },
     ];
-    for (up, down) in cases {
+    for case in cases {
+        let (up, down) = (case(1.0), case(-1.0));
         let a = solve(&up, &s).unwrap();
         let b = solve(&down, &s).unwrap();
         let (a_rev, b_rev) = (a.reversed.unwrap(), b.reversed.unwrap());

@@ -21,21 +21,18 @@
 //! Tolerance: π² to 1e-6 (reference-values §1, closed forms on a converged model; solved with
 //! tolerance 1e-7).
 
-use ltb_atlas::model::{Axial, Load, Member, Support};
+mod common;
+
+use common::fork_column;
+use ltb_atlas::model::{Load, Member, Support};
 use ltb_atlas::solve::{Settings, SolveError, Status, solve};
 use std::f64::consts::PI;
 
 #[test]
 fn pure_tension_does_not_buckle() {
     for (kappa, zc, rho) in [(0.0, 0.0, 0.0), (1.0, 0.0, 1.0), (0.5, 0.7, 1.5)] {
-        let mut m = Member::new(kappa, Support::FORK, Support::FORK);
-        m.axial = Some(Axial {
-            n: -1.0,
-            zeta_centroid: zc,
-            rho,
-        });
         let s = solve(
-            &m,
+            &fork_column(kappa, -1.0, zc, rho),
             &Settings {
                 tolerance: 1e-7,
                 reversed: true,

@@ -20,15 +20,17 @@
 //! of E·Iz/L⁴); the spring's flexibility adds about 1e-6 relative, so the
 //! tolerance is 1e-5.
 
-use ltb_atlas::model::{ContinuousRestraint, Load, Member, Support};
+mod common;
+
+use common::{mu0, uniform_moment};
+use ltb_atlas::model::{ContinuousRestraint, Member};
 use ltb_atlas::solve::{Settings, Status, solve};
 use std::f64::consts::PI;
 
+/// Uniform moment with forks, lateral springs of stiffness `k` per unit length along the whole
+/// member at height ζr, no torsional springs.
 fn restrained(kappa: f64, zeta_r: f64, k: f64) -> Member {
-    let mut m = Member::new(kappa, Support::FORK, Support::FORK).with_load(Load::EndMoments {
-        start: 1.0,
-        end: 1.0,
-    });
+    let mut m = uniform_moment(kappa);
     m.continuous.push(ContinuousRestraint {
         from: 0.0,
         to: 1.0,
@@ -37,6 +39,11 @@ fn restrained(kappa: f64, zeta_r: f64, k: f64) -> Member {
         twist: 0.0,
     });
     m
+}
+
+/// μcr of the forward direction.
+fn mu_cr(m: &Member, s: &Settings) -> f64 {
+    solve(m, s).unwrap().forward.mu_cr.unwrap()
 }
 
 #[test]
@@ -67,16 +74,8 @@ fn restraint_on_the_compression_side_is_far_more_effective() {
     // practically prevents lateral–torsional buckling; on the tension flange
     // it does not. κ = 0.5, flanges at ζ = ±κ.
     let s = Settings::default();
-    let top = solve(&restrained(0.5, 0.5, 1e4), &s)
-        .unwrap()
-        .forward
-        .mu_cr
-        .unwrap();
-    let bottom = solve(&restrained(0.5, -0.5, 1e4), &s)
-        .unwrap()
-        .forward
-        .mu_cr
-        .unwrap();
+    let top = mu_cr(&restrained(0.5, 0.5, 1e4), &s);
+    let bottom = mu_cr(&restrained(0.5, -0.5, 1e4), &s);
     assert!(top > 5.0 * bottom, "top {top}, bottom {bottom}");
 }
 
@@ -87,11 +86,7 @@ fn a_vanishing_restraint_changes_nothing() {
         tolerance: 1e-7,
         ..Default::default()
     };
-    let mu = solve(&restrained(0.8, -0.8, 1e-9), &s)
-        .unwrap()
-        .forward
-        .mu_cr
-        .unwrap();
-    let exact = PI * (1.0_f64 + 0.64).sqrt();
+    let mu = mu_cr(&restrained(0.8, -0.8, 1e-9), &s);
+    let exact = mu0(0.8);
     assert!((mu - exact).abs() < 1e-6 * exact);
 }

@@ -107,7 +107,13 @@
 //!   a few digits to half a unit of the last digit; recalled tables to the agreement stated in
 //!   reference-values §2 (1.5 % for γ1, 1.1 % for γ2 and γ3).
 
-use ltb_atlas::model::{Load, Member, Support};
+mod common;
+
+use common::{
+    cantilever_tip, cantilever_uniform, mu0, par_map, report_failures, simple_span_central_point,
+    simple_span_uniform,
+};
+use ltb_atlas::model::Member;
 use ltb_atlas::solve::{Settings, Status, solve};
 use nalgebra::DMatrix;
 use std::f64::consts::PI;
@@ -432,36 +438,29 @@ fn zetas(kappa: f64) -> Vec<f64> {
     z
 }
 
-fn udl(zeta: f64) -> Load {
-    Load::Distributed {
-        from: 0.0,
-        to: 1.0,
-        fz_from: -1.0,
-        fz_to: -1.0,
-        zeta,
-    }
-}
-
-fn point(at: f64, zeta: f64) -> Load {
-    Load::Point { at, fz: -1.0, zeta }
-}
-
 /// The engine's model of a grid case (unit gravity loads).
 fn member(p: Pattern, kappa: f64, zeta: f64) -> Member {
     match p {
-        Pattern::SimpleSpanUniform => {
-            Member::new(kappa, Support::FORK, Support::FORK).with_load(udl(zeta))
-        }
-        Pattern::SimpleSpanCentralPoint => {
-            Member::new(kappa, Support::FORK, Support::FORK).with_load(point(0.5, zeta))
-        }
-        Pattern::CantileverTip => {
-            Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(point(1.0, zeta))
-        }
-        Pattern::CantileverUniform => {
-            Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(udl(zeta))
+        Pattern::SimpleSpanUniform => simple_span_uniform(kappa, zeta),
+        Pattern::SimpleSpanCentralPoint => simple_span_central_point(kappa, zeta),
+        Pattern::CantileverTip => cantilever_tip(kappa, zeta),
+        Pattern::CantileverUniform => cantilever_uniform(kappa, zeta),
+    }
+}
+
+/// Every (pattern, κ, ζ) with κ from `kappas` and ζ from [`zetas`] plus `extra_zetas`.
+fn grid(kappas: &[f64], extra_zetas: &[f64]) -> Vec<(Pattern, f64, f64)> {
+    let mut cases = Vec::new();
+    for p in PATTERNS {
+        for &k in kappas {
+            let mut zs = zetas(k);
+            zs.extend_from_slice(extra_zetas);
+            for z in zs {
+                cases.push((p, k, z));
+            }
         }
     }
+    cases
 }
 
 const FORKS: Ends = Ends {
@@ -576,18 +575,6 @@ fn reference_of(p: Pattern, kappa: f64, zeta: f64) -> f64 {
     r.lambda
 }
 
-/// Run `f` over the items on two threads (the suite's budget is two cores).
-fn par_map<I: Sync, T: Send>(items: &[I], f: impl Fn(&I) -> T + Sync) -> Vec<T> {
-    let half = items.len().div_ceil(2);
-    let (a, b) = items.split_at(half);
-    std::thread::scope(|s| {
-        let h = s.spawn(|| b.iter().map(&f).collect::<Vec<T>>());
-        let mut out: Vec<T> = a.iter().map(&f).collect();
-        out.extend(h.join().unwrap());
-        out
-    })
-}
-
 #[test]
 fn gauss_legendre_is_exact_to_degree_2n_minus_1() {
     // Davis & Rabinowitz (1984) §2.7 (from memory): n-point Gauss–Legendre integrates
@@ -679,7 +666,7 @@ fn reference_reproduces_published_values() {
     // 1. Uniform moment, forks: μ = π·√(1 + κ²) exactly (Timoshenko & Gere 1961, §6.2;
     //    reference-values §1). λ = μ since M = 1. Tolerance 1e-9 relative (exact closed form).
     for kappa in [0.3_f64, 1.0, 4.0] {
-        let want = PI * (1.0 + kappa * kappa).sqrt();
+        let want = mu0(kappa);
         let got = reference(&[full(kappa, FORKS, FORKS, m_uniform)])
             .unwrap()
             .lambda;
@@ -818,7 +805,7 @@ fn half_span_split_matches_full_span() {
 }
 
 /// Check the engine against the reference over `cases`; prints one line per case and a summary,
-/// and returns the failures.
+/// and returns the failures (the caller prints and asserts them).
 fn check_grid(label: &str, cases: &[(Pattern, f64, f64)]) -> Vec<String> {
     let results = par_map(cases, |&(p, k, z)| {
         let eng = solve(&member(p, k, z), &Settings::default());
@@ -904,29 +891,12 @@ fn check_grid(label: &str, cases: &[(Pattern, f64, f64)]) -> Vec<String> {
     println!(
         "{label}: reference largest N/N+8 gap {max_gap:.1e}, highest degree used {max_degree}"
     );
-    for f in &failures {
-        println!("FAIL {f}");
-    }
     failures
 }
 
 #[test]
 fn engine_matches_spectral_reference_within_its_estimate() {
-    let mut cases = Vec::new();
-    for p in PATTERNS {
-        for k in KAPPAS {
-            for z in zetas(k) {
-                cases.push((p, k, z));
-            }
-        }
-    }
-    let failures = check_grid("spectral reference", &cases);
-    assert!(
-        failures.is_empty(),
-        "{} failing cases:\n{}",
-        failures.len(),
-        failures.join("\n")
-    );
+    report_failures(&check_grid("spectral reference", &grid(&KAPPAS, &[])));
 }
 
 #[test]
@@ -935,23 +905,10 @@ fn engine_matches_spectral_reference_at_small_kappa() {
     // (width ≈ κ·L/π) is thin and the engine relies on its graded mesh. The reference still
     // converges to 1e-9 here (checked case by case, degree ≤ 60); ζ as in the main grid plus 1.5
     // (a load well above the shear centre). Same assertions as the main grid.
-    let mut cases = Vec::new();
-    for p in PATTERNS {
-        for k in [0.05, 0.1, 0.2] {
-            let mut zs = zetas(k);
-            zs.push(1.5);
-            for z in zs {
-                cases.push((p, k, z));
-            }
-        }
-    }
-    let failures = check_grid("spectral reference, small κ", &cases);
-    assert!(
-        failures.is_empty(),
-        "{} failing cases:\n{}",
-        failures.len(),
-        failures.join("\n")
-    );
+    report_failures(&check_grid(
+        "spectral reference, small κ",
+        &grid(&[0.05, 0.1, 0.2], &[1.5]),
+    ));
 }
 
 #[test]

@@ -21,15 +21,39 @@
 //! Tolerance: 1e-6 relative at solver tolerance 1e-8 (closed forms), and the
 //! sum of the two error estimates for the invariants.
 
-use ltb_atlas::model::{Fixity, Load, Member, PointSupport, Restraint, Segment, Support};
-use ltb_atlas::solve::{Settings, solve};
-use std::f64::consts::PI;
+mod common;
 
-fn uniform_moment(kappa: f64) -> Member {
-    Member::new(kappa, Support::FORK, Support::FORK).with_load(Load::EndMoments {
-        start: 1.0,
-        end: 1.0,
-    })
+use common::{cantilever_tip, factor, mu0, uniform_moment};
+use ltb_atlas::model::{Fixity, Member, PointSupport, Restraint, Segment, Support};
+use ltb_atlas::solve::{Settings, solve};
+
+/// Solver settings for the closed-form checks (tolerance 1e-8, header).
+fn tight() -> Settings {
+    Settings {
+        tolerance: 1e-8,
+        ..Default::default()
+    }
+}
+
+/// μ of uniform moment with a fork at midspan: each half is a fork-supported member of length
+/// L/2 (κ' = 2κ), so μ = 2·μ0(2κ) = 2π·√(1 + 4κ²) (Timoshenko & Gere 1961, §6.2, per half span).
+fn mu_braced_at_midspan(kappa: f64) -> f64 {
+    2.0 * mu0(2.0 * kappa)
+}
+
+/// `base` with one stiffness segment over [from, to]: ratios (E·Iz, G·It, E·Iw, E·Iy), δ = 0.
+fn with_segment(base: &Member, from: f64, to: f64, [eiz, git, eiw, eiy]: [f64; 4]) -> Member {
+    let mut m = base.clone();
+    m.segments.push(Segment {
+        from,
+        to,
+        eiz,
+        git,
+        eiw,
+        eiy,
+        delta: 0.0,
+    });
+    m
 }
 
 fn mid_fork() -> Support {
@@ -41,10 +65,7 @@ fn mid_fork() -> Support {
 
 #[test]
 fn fork_at_midspan_halves_the_buckling_length() {
-    let s = Settings {
-        tolerance: 1e-8,
-        ..Default::default()
-    };
+    let s = tight();
     for kappa in [0.1, 0.5, 1.0, 2.0] {
         let mut m = uniform_moment(kappa);
         m.supports.push(PointSupport {
@@ -53,7 +74,7 @@ fn fork_at_midspan_halves_the_buckling_length() {
         });
         let mu = solve(&m, &s).unwrap().forward.mu_cr.unwrap();
         // Timoshenko & Gere 1961, §6.2, per half span.
-        let exact = 2.0 * PI * (1.0 + 4.0 * kappa * kappa).sqrt();
+        let exact = mu_braced_at_midspan(kappa);
         assert!(
             (mu - exact).abs() < 1e-6 * exact,
             "κ = {kappa}: {mu} vs {exact}"
@@ -65,10 +86,7 @@ fn fork_at_midspan_halves_the_buckling_length() {
 fn restraints_at_two_heights_act_as_a_fork() {
     // Lateral restraints at ζ = +κ and −κ at one point hold both v and φ
     // there: the same as a fork at midspan (same closed form).
-    let s = Settings {
-        tolerance: 1e-8,
-        ..Default::default()
-    };
+    let s = tight();
     let kappa = 0.8;
     let mut m = uniform_moment(kappa);
     for z in [kappa, -kappa] {
@@ -80,66 +98,27 @@ fn restraints_at_two_heights_act_as_a_fork() {
         });
     }
     let mu = solve(&m, &s).unwrap().forward.mu_cr.unwrap();
-    let exact = 2.0 * PI * (1.0 + 4.0 * kappa * kappa).sqrt();
+    let exact = mu_braced_at_midspan(kappa);
     assert!((mu - exact).abs() < 1e-6 * exact, "{mu} vs {exact}");
 }
 
 #[test]
 fn segments_scale_and_neutral_segments_change_nothing() {
     let s = Settings::default();
-    let base = Member::new(0.7, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-        at: 1.0,
-        fz: -1.0,
-        zeta: 0.7,
-    });
-    let r0 = solve(&base, &s).unwrap().forward;
+    let base = cantilever_tip(0.7, 0.7);
+    let (l0, e0) = factor(&base, &s);
     // All rigidities ×3 over the whole member: factor ×3.
-    let mut scaled = base.clone();
-    scaled.segments.push(Segment {
-        from: 0.0,
-        to: 1.0,
-        eiz: 3.0,
-        git: 3.0,
-        eiw: 3.0,
-        eiy: 3.0,
-        delta: 0.0,
-    });
-    let r1 = solve(&scaled, &s).unwrap().forward;
-    let (l0, l1) = (r0.load_factor.unwrap(), r1.load_factor.unwrap());
+    let (l1, e1) = factor(&with_segment(&base, 0.0, 1.0, [3.0; 4]), &s);
     assert!(
-        (l1 - 3.0 * l0).abs() <= (r0.error_estimate + r1.error_estimate) * 3.0 * l0,
+        (l1 - 3.0 * l0).abs() <= (e0 + e1) * 3.0 * l0,
         "{l1} vs {}",
         3.0 * l0
     );
     // A segment with unit ratios over part of the member: nothing changes.
-    let mut neutral = base.clone();
-    neutral.segments.push(Segment {
-        from: 0.3,
-        to: 0.6,
-        eiz: 1.0,
-        git: 1.0,
-        eiw: 1.0,
-        eiy: 1.0,
-        delta: 0.0,
-    });
-    let r2 = solve(&neutral, &s).unwrap().forward;
-    let l2 = r2.load_factor.unwrap();
-    assert!(
-        (l2 - l0).abs() <= (r0.error_estimate + r2.error_estimate) * l0,
-        "{l2} vs {l0}"
-    );
+    let (l2, e2) = factor(&with_segment(&base, 0.3, 0.6, [1.0; 4]), &s);
+    assert!((l2 - l0).abs() <= (e0 + e2) * l0, "{l2} vs {l0}");
     // A stiffer middle segment cannot lower the factor (Rayleigh quotient:
     // K grows, Kg of a statically determinate member is unchanged).
-    let mut stiff = base.clone();
-    stiff.segments.push(Segment {
-        from: 0.3,
-        to: 0.6,
-        eiz: 2.0,
-        git: 2.0,
-        eiw: 2.0,
-        eiy: 1.0,
-        delta: 0.0,
-    });
-    let l3 = solve(&stiff, &s).unwrap().forward.load_factor.unwrap();
+    let (l3, _) = factor(&with_segment(&base, 0.3, 0.6, [2.0, 2.0, 2.0, 1.0]), &s);
     assert!(l3 > l0 * (1.0 + 1e-3), "{l3} vs {l0}");
 }

@@ -9,6 +9,7 @@
 //!   independent FE, tolerance 1.5 %);
 //! - simply supported I-beams with forks, centroid load, central point γ2 and uniform γ3 (memory;
 //!   agree within 1.1 %).
+//!
 //! Conversion at the boundary (reference-values §2): κ = π/√(L²C/C1); for a doubly symmetric
 //! section the centroid is the shear centre, so ζ = 0; γ = P·L²/√(E·Iz·G·It) (total load qL for
 //! the uniform load) = the dimensionless load factor with unit load.
@@ -34,33 +35,19 @@
 //!   report an estimate ≤ 5e-7 (1e-7 is at the solver's round-off floor on graded meshes, so a
 //!   not-converged status with a small estimate is accepted).
 
+mod common;
+
+use common::{
+    cantilever_tip, cantilever_uniform, rel_diff, simple_span_central_point, simple_span_uniform,
+    solved,
+};
 use ltb_atlas::fe::mesh::MeshControls;
-use ltb_atlas::model::{Load, Member, Support};
+use ltb_atlas::model::Member;
 use ltb_atlas::solve::{Direction, Settings, Status, solve};
 use std::f64::consts::PI;
 
-fn point(at: f64) -> Load {
-    Load::Point {
-        at,
-        fz: -1.0,
-        zeta: 0.0,
-    }
-}
-
-fn uniform() -> Load {
-    Load::Distributed {
-        from: 0.0,
-        to: 1.0,
-        fz_from: -1.0,
-        fz_to: -1.0,
-        zeta: 0.0,
-    }
-}
-
 fn forward(m: &Member, s: &Settings) -> Direction {
-    let d = solve(m, s)
-        .unwrap_or_else(|e| panic!("solve failed: {e}\n  member {m:?}\n  settings {s:?}"))
-        .forward;
+    let d = solved(m, s).forward;
     assert_eq!(d.status, Status::Ok, "not converged: {m:?}");
     d
 }
@@ -70,34 +57,61 @@ fn kappa_of(l2c_c1: f64) -> f64 {
     PI / l2c_c1.sqrt()
 }
 
+/// Check a table of (L²C/C1, published γ) rows: the member `member(κ)` solved with default
+/// settings (status Ok) must give a load factor within the relative `tol` of γ. Prints one line a
+/// row under `name` (γ1, γ2, γ3) and returns the largest signed difference with its L²C/C1. The
+/// source of each table and its tolerance is named where this is called.
+fn check_gamma_table(
+    name: &str,
+    table: &[(f64, f64)],
+    tol: f64,
+    member: fn(f64) -> Member,
+) -> (f64, f64) {
+    let mut worst = (0.0_f64, 0.0);
+    for &(l2c, gamma) in table {
+        let kappa = kappa_of(l2c);
+        let lf = forward(&member(kappa), &Settings::default())
+            .load_factor
+            .unwrap();
+        let r = rel_diff(lf, gamma);
+        if r.abs() > worst.0.abs() {
+            worst = (r, l2c);
+        }
+        println!(
+            "{name}: L²C/C1 = {l2c} (κ = {kappa:.4}): FE {lf:.4}, T&G {gamma}, diff {:+.2} %",
+            100.0 * r
+        );
+        assert!(
+            r.abs() <= tol,
+            "{name} at L²C/C1 = {l2c} (κ = {kappa}): FE {lf}, T&G {gamma}"
+        );
+    }
+    worst
+}
+
 #[test]
 fn narrow_rectangle_kappa_zero() {
     // (member, published coefficient, half unit of its last digit, label)
     let cases = [
         // T&G 1961 ch. 6, cantilever tip load 4.013 (read), κ = 0, centroid.
-        (
-            Member::new(0.0, Support::BUILT_IN, Support::FREE).with_load(point(1.0)),
-            4.013,
-            0.0005,
-            "cantilever tip",
-        ),
+        (cantilever_tip(0.0, 0.0), 4.013, 0.0005, "cantilever tip"),
         // T&G 1961 ch. 6, cantilever uniform load 12.85 (memory), κ = 0, centroid.
         (
-            Member::new(0.0, Support::BUILT_IN, Support::FREE).with_load(uniform()),
+            cantilever_uniform(0.0, 0.0),
             12.85,
             0.005,
             "cantilever uniform",
         ),
         // T&G 1961 ch. 6, simply supported central point load 16.94 (memory), κ = 0, centroid.
         (
-            Member::new(0.0, Support::FORK, Support::FORK).with_load(point(0.5)),
+            simple_span_central_point(0.0, 0.0),
             16.94,
             0.005,
             "simple span central point",
         ),
         // T&G 1961 ch. 6, simply supported uniform load 28.3 (memory), κ = 0, centroid.
         (
-            Member::new(0.0, Support::FORK, Support::FORK).with_load(uniform()),
+            simple_span_uniform(0.0, 0.0),
             28.3,
             0.05,
             "simple span uniform",
@@ -120,11 +134,7 @@ fn narrow_rectangle_kappa_zero() {
     }
     // κ = 0: a built-in root's warping restraint is meaningless and the solver says so
     // (reference-values §2 note; domain notes "What the model leaves out").
-    let s = solve(
-        &Member::new(0.0, Support::BUILT_IN, Support::FREE).with_load(point(1.0)),
-        &Settings::default(),
-    )
-    .unwrap();
+    let s = solve(&cantilever_tip(0.0, 0.0), &Settings::default()).unwrap();
     assert!(
         !s.notes.is_empty(),
         "κ = 0 with a warping-fixed root should carry a note"
@@ -152,25 +162,8 @@ fn built_in_cantilever_tip_load_gamma1() {
         (40.0, 5.64),
         (100.0, 4.95),
     ];
-    let mut worst = (0.0_f64, 0.0);
-    for (l2c, gamma) in table {
-        let kappa = kappa_of(l2c);
-        let m = Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(point(1.0));
-        let lf = forward(&m, &Settings::default()).load_factor.unwrap();
-        let r = (lf - gamma) / gamma;
-        if r.abs() > worst.0.abs() {
-            worst = (r, l2c);
-        }
-        println!(
-            "γ1: L²C/C1 = {l2c} (κ = {kappa:.4}): FE {lf:.4}, T&G {gamma}, diff {:+.2} %",
-            100.0 * r
-        );
-        // T&G 1961 ch. 6, γ1 at L²C/C1 = l2c (κ = π/√l2c), memory, 1.5 %.
-        assert!(
-            r.abs() <= 0.015,
-            "γ1 at L²C/C1 = {l2c} (κ = {kappa}): FE {lf}, T&G {gamma}"
-        );
-    }
+    // T&G 1961 ch. 6, γ1 at L²C/C1 = l2c (κ = π/√l2c), memory, 1.5 %.
+    let worst = check_gamma_table("γ1", &table, 0.015, |kappa| cantilever_tip(kappa, 0.0));
     println!(
         "γ1 worst difference {:+.2} % at L²C/C1 = {}",
         100.0 * worst.0,
@@ -202,20 +195,12 @@ fn built_in_cantilever_converged_value_is_mesh_independent() {
     for l2c in [0.1, 1.0, 10.0, 100.0] {
         let kappa = kappa_of(l2c);
         for zeta in [0.0, kappa] {
-            let m = Member::new(kappa, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
-                at: 1.0,
-                fz: -1.0,
-                zeta,
-            });
+            let m = cantilever_tip(kappa, zeta);
             // Tolerance 1e-7 sits at the solver's round-off floor on graded meshes, so a
             // not-converged status is accepted here as long as each estimate stays below half
             // the 1e-6 comparison band.
             let get = |s: &Settings| {
-                let d = solve(&m, s)
-                    .unwrap_or_else(|e| {
-                        panic!("solve failed: {e}\n  member {m:?}\n  settings {s:?}")
-                    })
-                    .forward;
+                let d = solved(&m, s).forward;
                 assert!(
                     d.load_factor.is_some() && d.error_estimate <= 5e-7,
                     "κ = {kappa}, ζ = {zeta}: {:?}, estimate {:.2e}",
@@ -257,21 +242,10 @@ fn simply_supported_central_point_gamma2() {
         (64.0, 18.3),
         (128.0, 17.6),
     ];
-    for (l2c, gamma) in table {
-        let kappa = kappa_of(l2c);
-        let m = Member::new(kappa, Support::FORK, Support::FORK).with_load(point(0.5));
-        let lf = forward(&m, &Settings::default()).load_factor.unwrap();
-        let r = (lf - gamma) / gamma;
-        println!(
-            "γ2: L²C/C1 = {l2c} (κ = {kappa:.4}): FE {lf:.4}, T&G {gamma}, diff {:+.2} %",
-            100.0 * r
-        );
-        // T&G 1961 ch. 6, γ2 at L²C/C1 = l2c (κ = π/√l2c), memory, 1.1 %.
-        assert!(
-            r.abs() <= 0.011,
-            "γ2 at L²C/C1 = {l2c} (κ = {kappa}): FE {lf}, T&G {gamma}"
-        );
-    }
+    // T&G 1961 ch. 6, γ2 at L²C/C1 = l2c (κ = π/√l2c), memory, 1.1 %.
+    check_gamma_table("γ2", &table, 0.011, |kappa| {
+        simple_span_central_point(kappa, 0.0)
+    });
 }
 
 #[test]
@@ -285,19 +259,8 @@ fn simply_supported_uniform_load_gamma3() {
         (16.0, 36.3),
         (32.0, 32.6),
     ];
-    for (l2c, gamma) in table {
-        let kappa = kappa_of(l2c);
-        let m = Member::new(kappa, Support::FORK, Support::FORK).with_load(uniform());
-        let lf = forward(&m, &Settings::default()).load_factor.unwrap();
-        let r = (lf - gamma) / gamma;
-        println!(
-            "γ3: L²C/C1 = {l2c} (κ = {kappa:.4}): FE {lf:.4}, T&G {gamma}, diff {:+.2} %",
-            100.0 * r
-        );
-        // T&G 1961 ch. 6, γ3 at L²C/C1 = l2c (κ = π/√l2c), memory, 1.1 %.
-        assert!(
-            r.abs() <= 0.011,
-            "γ3 at L²C/C1 = {l2c} (κ = {kappa}): FE {lf}, T&G {gamma}"
-        );
-    }
+    // T&G 1961 ch. 6, γ3 at L²C/C1 = l2c (κ = π/√l2c), memory, 1.1 %.
+    check_gamma_table("γ3", &table, 0.011, |kappa| {
+        simple_span_uniform(kappa, 0.0)
+    });
 }

@@ -421,7 +421,10 @@ pub fn lowest_positive(
         // Shift just below the estimate so the count there is informative.
         let (s, neg) = wk.factor_at(k, g, sigma);
         // The count at the iteration shift comes free: keep it.
-        inertia.push(Inertia { shift: s, negative: neg });
+        inertia.push(Inertia {
+            shift: s,
+            negative: neg,
+        });
         let lam = inverse_iteration(k, g, &mut wk, &mut x, 12).ok_or(EigenError::NotConverged)?;
         if !(lam > 0.0) {
             return Err(EigenError::NotConverged);
@@ -491,22 +494,42 @@ pub fn lowest_positive(
 /// the count at the inverse-iteration shift) when one exists, otherwise
 /// from a factorisation at λ·(1 + ε). Returns None when the lower count is
 /// not zero (the caller then searches).
-pub fn prove(k: &BandMatrix, g: &BandMatrix, lambda: f64, x: &[f64], known: &[Inertia], opt: &Options) -> Option<Vec<Inertia>> {
+pub fn prove(
+    k: &BandMatrix,
+    g: &BandMatrix,
+    lambda: f64,
+    x: &[f64],
+    known: &[Inertia],
+    opt: &Options,
+) -> Option<Vec<Inertia>> {
     let mut wk = Work::new(k);
     let eps = opt.proof.max(round_off(k, x, &mut wk.t2));
     let (s_lo, n_lo) = wk.factor_at(k, g, lambda * (1.0 - eps));
     if n_lo != 0 {
         return None;
     }
-    let lower = Inertia { shift: s_lo, negative: n_lo };
-    if let Some(up) = known.iter().filter(|i| i.shift >= lambda && i.negative >= 1).min_by(|a, b| a.shift.total_cmp(&b.shift)) {
+    let lower = Inertia {
+        shift: s_lo,
+        negative: n_lo,
+    };
+    if let Some(up) = known
+        .iter()
+        .filter(|i| i.shift >= lambda && i.negative >= 1)
+        .min_by(|a, b| a.shift.total_cmp(&b.shift))
+    {
         return Some(vec![lower, *up]);
     }
     let (s_hi, n_hi) = wk.factor_at(k, g, lambda * (1.0 + eps));
     if n_hi == 0 {
         return None;
     }
-    Some(vec![lower, Inertia { shift: s_hi, negative: n_hi }])
+    Some(vec![
+        lower,
+        Inertia {
+            shift: s_hi,
+            negative: n_hi,
+        },
+    ])
 }
 
 /// Bisection on the inertia count: the lowest factor lies in (0, hi) where

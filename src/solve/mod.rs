@@ -343,7 +343,9 @@ fn direction(
                 check_k: false,
                 ..Default::default()
             };
-            if let Some(inertia) = eigen::prove(&sys.k, &sys.g, lambda, &mode, &level_inertia, &popt) {
+            if let Some(inertia) =
+                eigen::prove(&sys.k, &sys.g, lambda, &mode, &level_inertia, &popt)
+            {
                 return Ok(finish(
                     est,
                     s.tolerance,
