@@ -273,23 +273,24 @@ fn lanczos(
         kf.solve_in_place(&mut r);
         let a = dot(qj, &kr);
         alpha.push(a);
-        // Full re-orthogonalisation in the K inner product (twice is enough).
-        for _ in 0..2 {
-            for i in 0..qs.len() {
-                let c = dot(&ps[i], &r);
-                for t in 0..n {
-                    r[t] -= c * qs[i][t];
-                    kr[t] -= c * ps[i][t];
-                }
+        // Full re-orthogonalisation in the K inner product, one pass: the
+        // run is short and only seeds the inverse iteration, whose result
+        // the inertia count checks.
+        for i in 0..qs.len() {
+            let c = dot(&ps[i], &r);
+            for t in 0..n {
+                r[t] -= c * qs[i][t];
+                kr[t] -= c * ps[i][t];
             }
         }
         let b = dot(&r, &kr).max(0.0).sqrt();
-        // Check convergence of the largest Ritz value every few steps.
+        // Stop once the largest Ritz value's residual is 1 % of it: enough
+        // for a shift; the inverse iteration does the rest.
         let done = j + 1 == m || b <= 1e-12 * alpha.iter().fold(0.0_f64, |x, y| x.max(y.abs()));
         if done || j >= 3 {
             let (theta, s) = tridiag_max(&alpha, &beta);
             let resid = (b * s[j]).abs();
-            if done || resid <= 1e-3 * theta.abs() {
+            if done || resid <= 1e-2 * theta.abs() {
                 last = (theta, s);
                 break;
             }
