@@ -296,8 +296,9 @@ fn lanczos(
             }
         }
         beta.push(b);
-        r.iter_mut().for_each(|v| *v /= b);
-        kr.iter_mut().for_each(|v| *v /= b);
+        let ib = 1.0 / b;
+        r.iter_mut().for_each(|v| *v *= ib);
+        kr.iter_mut().for_each(|v| *v *= ib);
         qs.push(r);
         ps.push(kr);
     }
@@ -336,7 +337,8 @@ fn inverse_iteration(
         if !(nrm > 0.0) || !nrm.is_finite() {
             return None;
         }
-        x.iter_mut().for_each(|v| *v /= nrm);
+        let inv = 1.0 / nrm;
+        x.iter_mut().for_each(|v| *v *= inv);
         // Rayleigh quotient −xᵀKx / xᵀGx
         g.mul_vec(x, &mut wk.t1);
         k.mul_vec(x, &mut wk.t2);

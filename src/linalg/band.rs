@@ -159,7 +159,8 @@ impl BandMatrix {
         }
     }
 
-    /// Factorise in place as L·D·Lᵀ (unit L below the diagonal, D on it).
+    /// Factorise in place as L·D·Lᵀ (unit L below the diagonal; the
+    /// diagonal then holds 1/D, so that solves multiply instead of divide).
     /// Returns the number of negative pivots. A pivot whose magnitude falls
     /// below `rel_tol` times the largest absolute entry of its original row is
     /// a [`BandError::ZeroPivot`].
@@ -210,7 +211,7 @@ impl BandMatrix {
                     s -= tk * ljk;
                 }
                 t[jj] = s;
-                row[j + b - i] = s / rj[b];
+                row[j + b - i] = s * rj[b];
             }
             let mut d = row[b];
             for (tk, lik) in t[..len].iter().zip(&row[b - len..b]) {
@@ -222,7 +223,7 @@ impl BandMatrix {
             if d < 0.0 {
                 neg += 1;
             }
-            row[b] = d;
+            row[b] = 1.0 / d;
         }
         Ok((neg, ()))
     }
@@ -250,7 +251,7 @@ impl BandMatrix {
                     s -= t[c2] * rj[c2 + B - c];
                 }
                 t[c] = s;
-                row[c] = s / rj[B];
+                row[c] = s * rj[B];
             }
             let mut d = row[B];
             for c in 0..B {
@@ -262,7 +263,7 @@ impl BandMatrix {
             if d < 0.0 {
                 neg += 1;
             }
-            row[B] = d;
+            row[B] = 1.0 / d;
         }
         Ok(neg)
     }
@@ -291,7 +292,7 @@ impl BandMatrix {
             tail[0] = s;
         }
         for (xi, row) in x.iter_mut().zip(self.a.chunks_exact(w)) {
-            *xi /= row[b];
+            *xi *= row[b];
         }
         for (i, row) in self.a.chunks_exact(w).enumerate().rev() {
             let j0 = i.saturating_sub(b);
@@ -324,7 +325,7 @@ impl BandMatrix {
             x[i] = s;
         }
         for i in 0..n {
-            x[i] /= self.a[i * w + B];
+            x[i] *= self.a[i * w + B];
         }
         for i in (0..n).rev() {
             let row = &self.a[i * w..(i + 1) * w];
