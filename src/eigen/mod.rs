@@ -213,11 +213,11 @@ fn tridiag_max(alpha: &[f64], beta: &[f64]) -> (f64, Vec<f64>) {
     // Eigenvector: inverse iteration with T − (θ + η)·I, negative definite.
     let eta = 1e-10 * span.max(theta.abs());
     let mut s = vec![1.0; m];
-    for _ in 0..3 {
-        // Thomas algorithm on (T − (θ+η) I) y = s
-        let mut cp = vec![0.0; m];
-        let mut dp = vec![0.0; m];
-        let shift = theta + eta;
+    let mut cp = vec![0.0; m];
+    let mut dp = vec![0.0; m];
+    let shift = theta + eta;
+    for _ in 0..2 {
+        // Thomas algorithm on (T − (θ+η) I) y = s, y written back into s
         let mut den = alpha[0] - shift;
         cp[0] = if m > 1 { beta[0] / den } else { 0.0 };
         dp[0] = s[0] / den;
@@ -228,13 +228,12 @@ fn tridiag_max(alpha: &[f64], beta: &[f64]) -> (f64, Vec<f64>) {
             }
             dp[i] = (s[i] - beta[i - 1] * dp[i - 1]) / den;
         }
-        let mut y = vec![0.0; m];
-        y[m - 1] = dp[m - 1];
+        s[m - 1] = dp[m - 1];
         for i in (0..m - 1).rev() {
-            y[i] = dp[i] - cp[i] * y[i + 1];
+            s[i] = dp[i] - cp[i] * s[i + 1];
         }
-        let nrm = dot(&y, &y).sqrt();
-        s = y.iter().map(|v| v / nrm).collect();
+        let inv = 1.0 / dot(&s, &s).sqrt();
+        s.iter_mut().for_each(|v| *v *= inv);
     }
     (theta, s)
 }
