@@ -272,7 +272,11 @@ fn write_direction(
         "  critical load factor λcr   {}",
         fmt_opt(d.load_factor, 5)
     )?;
-    writeln!(w, "  μcr = Mcr·L/√(EIz·GIt)     {}", fmt_opt(d.mu_cr, 5))?;
+    writeln!(
+        w,
+        "  μcr = Mcr·L/√(EIz·GIt)     {}   (L the whole member, x = 0 to L)",
+        fmt_opt(d.mu_cr, 5)
+    )?;
     writeln!(
         w,
         "  μcr/μ0                     {}   (μ0 = π√(1+κ²) = {:.5}; equals C1 only with forks and ζ = 0)",
