@@ -76,6 +76,10 @@ impl BandMatrix {
         let k = self.idx(i, j);
         self.a[k] += v;
     }
+    /// Multiply every entry by `s`.
+    pub fn scale(&mut self, s: f64) {
+        self.a.iter_mut().for_each(|x| *x *= s);
+    }
     /// Set every entry to zero.
     pub fn clear(&mut self) {
         self.a.iter_mut().for_each(|x| *x = 0.0);

@@ -285,7 +285,7 @@ fn direction(
         let x = mesh::refine(base, level);
         let mut sys = assembly::assemble(m, &x, mf);
         if sign < 0.0 {
-            sys.g = negate(&sys.g);
+            sys.g.scale(-1.0);
         }
         let start = prev.as_ref().map(|(l, _, ps, v)| {
             let full = ps.expand(v);
@@ -431,11 +431,6 @@ fn finish(
     }
 }
 
-fn negate(g: &crate::linalg::band::BandMatrix) -> crate::linalg::band::BandMatrix {
-    let mut out = g.clone();
-    out.set_combination(g, -2.0, g);
-    out
-}
 
 fn mode_shape(sys: &System, red: &[f64]) -> Mode {
     let full = sys.expand(red);
