@@ -431,7 +431,6 @@ fn finish(
     }
 }
 
-
 fn mode_shape(sys: &System, red: &[f64]) -> Mode {
     let full = sys.expand(red);
     let mut v: Vec<f64> = full.iter().map(|f| f[0]).collect();
