@@ -120,6 +120,78 @@ pub fn parse_case(text: &str, origin: &str) -> Result<ResolvedCase, CaseError> {
     resolve::resolve(&src, root.get_ref())
 }
 
+/// One step of the way to a case table inside a larger TOML document.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Step<'a> {
+    /// A key of a table.
+    Key(&'a str),
+    /// An element of an array of tables (0-based).
+    Index(usize),
+}
+
+/// Parse a case held in a table of a larger document, for example
+/// `[Step::Key("family"), Step::Index(0), Step::Key("case")]` for the inline
+/// `[family.case]` of a sweep spec's first family. Errors carry the
+/// document's own lines and columns and keys prefixed with the path
+/// (`family[0].case.load[1].at`).
+pub fn parse_case_in(
+    text: &str,
+    origin: &str,
+    steps: &[Step<'_>],
+) -> Result<ResolvedCase, CaseError> {
+    use toml::de::DeValue;
+    let src = span::Source { text, origin };
+    let root = toml::de::DeTable::parse(text).map_err(|e| syntax_error(&src, &e))?;
+    let mut table = root.get_ref();
+    let mut span = 0..0;
+    let mut path = String::new();
+    let missing = |path: &str, span: &std::ops::Range<usize>| {
+        src.error(
+            span,
+            path,
+            format!("no table `{path}` here: give the case inline or as a file"),
+        )
+    };
+    let mut i = 0;
+    while i < steps.len() {
+        let Step::Key(k) = steps[i] else {
+            return Err(missing(&path, &span));
+        };
+        let Some((key, value)) = table.iter().find(|(kk, _)| kk.get_ref() == k) else {
+            let p = if path.is_empty() {
+                k.to_string()
+            } else {
+                format!("{path}.{k}")
+            };
+            return Err(missing(&p, &span));
+        };
+        path = if path.is_empty() {
+            k.to_string()
+        } else {
+            format!("{path}.{k}")
+        };
+        span = key.span();
+        let mut v = value.get_ref();
+        if let Some(Step::Index(n)) = steps.get(i + 1) {
+            match v {
+                DeValue::Array(items) if *n < items.len() => {
+                    span = items[*n].span();
+                    v = items[*n].get_ref();
+                    path = format!("{path}[{n}]");
+                }
+                _ => return Err(missing(&format!("{path}[{n}]"), &span)),
+            }
+            i += 1;
+        }
+        match v {
+            DeValue::Table(t) => table = t,
+            _ => return Err(src.error(&span, &path, format!("`{path}` must be a table"))),
+        }
+        i += 1;
+    }
+    resolve::resolve_in(&src, table, &path, span)
+}
+
 /// A TOML syntax error as a [`CaseError`].
 fn syntax_error(src: &span::Source<'_>, e: &toml::de::Error) -> CaseError {
     let span = e.span().unwrap_or(0..0);

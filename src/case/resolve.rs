@@ -234,10 +234,22 @@ struct Builder<'s> {
 
 /// Resolve a parsed document.
 pub(crate) fn resolve(src: &Source<'_>, root: &DeTable<'_>) -> Result<ResolvedCase, CaseError> {
-    let root_span = 0..0;
+    resolve_in(src, root, "", 0..0)
+}
+
+/// Resolve a case held in a table of a larger document (for example a
+/// family's `[family.case]` in a sweep spec): `path` prefixes every key in
+/// errors and `span` is the table's header, where errors about the table as
+/// a whole point.
+pub(crate) fn resolve_in(
+    src: &Source<'_>,
+    root: &DeTable<'_>,
+    path: &str,
+    root_span: Range<usize>,
+) -> Result<ResolvedCase, CaseError> {
     let top = Tab {
         src,
-        path: "",
+        path,
         span: &root_span,
         t: root,
     };
