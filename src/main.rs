@@ -42,7 +42,32 @@ enum Command {
         #[arg(long)]
         tolerance: Option<f64>,
     },
+    /// Solve every family of a sweep spec over its grid and write CSV tables.
+    Sweep {
+        /// Sweep spec (TOML).
+        spec: PathBuf,
+        /// Output folder (created if needed).
+        #[arg(long)]
+        out: PathBuf,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+        /// Relative error target of every solve (default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+        /// Print nothing but errors.
+        #[arg(long)]
+        quiet: bool,
+        /// Run grids larger than the size threshold without asking.
+        #[arg(long)]
+        yes: bool,
+    },
 }
+
+/// Grids above this many cases need `--yes`.
+const SWEEP_CONFIRM: usize = 200_000;
+/// Cases solved and written per chunk (bounded memory, ordered output).
+const SWEEP_CHUNK: usize = 2048;
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
@@ -64,6 +89,14 @@ fn run(cli: Cli) -> Result<ExitCode> {
             reversed,
             tolerance,
         } => solve_cmd(&case, json, mode.as_deref(), reversed, tolerance),
+        Command::Sweep {
+            spec,
+            out,
+            jobs,
+            tolerance,
+            quiet,
+            yes,
+        } => sweep_cmd(&spec, &out, jobs, tolerance, quiet, yes),
     }
 }
 
@@ -164,6 +197,162 @@ fn solve_cmd(
             .as_ref()
             .is_some_and(|r| r.status == Status::NotConverged);
     Ok(if not_conv {
+        ExitCode::from(1)
+    } else {
+        ExitCode::SUCCESS
+    })
+}
+
+fn sweep_cmd(
+    spec_path: &Path,
+    out: &Path,
+    jobs: Option<usize>,
+    tolerance: Option<f64>,
+    quiet: bool,
+    yes: bool,
+) -> Result<ExitCode> {
+    use indicatif::{ProgressBar, ProgressStyle};
+    use ltb_atlas::sweep::{self, spec::parse_spec};
+    use rayon::prelude::*;
+    use sha2::{Digest, Sha256};
+    use std::io::IsTerminal;
+
+    let text = std::fs::read_to_string(spec_path)
+        .with_context(|| format!("cannot read the spec {}", spec_path.display()))?;
+    let hash: String = Sha256::digest(text.as_bytes())
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect();
+    let dir = spec_path.parent().unwrap_or(Path::new("."));
+    let spec =
+        parse_spec(&text, &spec_path.display().to_string(), dir).map_err(anyhow::Error::new)?;
+    let tol = tolerance.unwrap_or(1e-4);
+    if !(tol > 0.0 && tol < 0.1) {
+        anyhow::bail!("--tolerance must lie between 0 and 0.1 (a relative error), got {tol}");
+    }
+    let total: usize = spec.families.iter().map(|f| f.size()).sum();
+    if total > SWEEP_CONFIRM && !yes {
+        anyhow::bail!(
+            "{}: the spec holds {total} cases (above {SWEEP_CONFIRM}); at about 10 000 solves per second per core this takes roughly {:.0} s of CPU; rerun with --yes to go ahead",
+            spec_path.display(),
+            total as f64 / 1e4
+        );
+    }
+    std::fs::create_dir_all(out).with_context(|| {
+        format!(
+            "cannot create the output folder {} (check the path and permissions)",
+            out.display()
+        )
+    })?;
+    // A manifest from an earlier run no longer describes the folder.
+    let manifest_path = out.join("manifest.json");
+    if manifest_path.exists() {
+        std::fs::remove_file(&manifest_path)
+            .with_context(|| format!("cannot replace {}", manifest_path.display()))?;
+    }
+    let mut pool = rayon::ThreadPoolBuilder::new();
+    if let Some(j) = jobs {
+        anyhow::ensure!(j >= 1, "--jobs must be at least 1");
+        pool = pool.num_threads(j);
+    }
+    let pool = pool.build().context("cannot start the worker threads")?;
+    let settings = Settings {
+        tolerance: tol,
+        ..Default::default()
+    };
+    let show_bar = !quiet && std::io::stderr().is_terminal();
+    let bar = if show_bar {
+        let b = ProgressBar::new(total as u64);
+        b.set_style(
+            ProgressStyle::with_template(
+                "{spinner} [{elapsed_precise}] {bar:40} {pos}/{len} cases ({per_sec}, ETA {eta})",
+            )
+            .expect("valid template"),
+        );
+        b
+    } else {
+        ProgressBar::hidden()
+    };
+    let mut files = Vec::new();
+    let mut fam_json = Vec::new();
+    let mut failed_total = 0usize;
+    for f in &spec.families {
+        let name = format!("{}.csv", f.name);
+        let mut tmp = tempfile::NamedTempFile::new_in(out)
+            .with_context(|| format!("cannot write in {}", out.display()))?;
+        let mut failed = 0usize;
+        {
+            let mut buf = std::io::BufWriter::new(tmp.as_file_mut());
+            sweep::preamble(&mut buf, f, &hash, tol)?;
+            let mut w = csv::WriterBuilder::new().from_writer(&mut buf as &mut dyn Write);
+            w.write_record(sweep::header(f))?;
+            let n = f.size();
+            let mut start = 0;
+            while start < n {
+                let end = (start + SWEEP_CHUNK).min(n);
+                let rows: Vec<sweep::Row> = pool.install(|| {
+                    (start..end)
+                        .into_par_iter()
+                        .map(|i| {
+                            let r = sweep::solve_point(f.point(i), &settings);
+                            bar.inc(1);
+                            r
+                        })
+                        .collect()
+                });
+                for r in &rows {
+                    if r.status != "ok" {
+                        failed += 1;
+                    }
+                    sweep::write_row(&mut w, f, r)?;
+                }
+                start = end;
+            }
+            w.flush()?;
+            drop(w);
+            buf.flush()?;
+        }
+        tmp.persist(out.join(&name))
+            .with_context(|| format!("cannot write {}", out.join(&name).display()))?;
+        failed_total += failed;
+        fam_json.push(
+            serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name}),
+        );
+        files.push(name);
+        if !quiet && !show_bar {
+            eprintln!(
+                "family {}: {} cases, {} not ok -> {}",
+                f.name,
+                f.size(),
+                failed,
+                files.last().expect("pushed")
+            );
+        }
+    }
+    bar.finish_and_clear();
+    files.sort();
+    let manifest = serde_json::json!({
+        "tool": "ltb-atlas",
+        "version": env!("CARGO_PKG_VERSION"),
+        "spec_sha256": hash,
+        "solver_tolerance": tol,
+        "cases": total,
+        "failed": failed_total,
+        "families": fam_json,
+        "files": files,
+        "caution": ltb_atlas::CAUTION,
+    });
+    let mut bytes = serde_json::to_vec_pretty(&manifest)?;
+    bytes.push(b'\n');
+    write_atomic(&manifest_path, &bytes)?;
+    if !quiet {
+        eprintln!(
+            "{total} cases in {} families, {failed_total} not ok; tables and manifest in {}",
+            spec.families.len(),
+            out.display()
+        );
+    }
+    Ok(if failed_total > 0 {
         ExitCode::from(1)
     } else {
         ExitCode::SUCCESS

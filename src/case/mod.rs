@@ -6,8 +6,8 @@
 //! [`parse_case`], [`load_case`].
 
 mod resolve;
-mod schema;
-mod span;
+pub(crate) mod schema;
+pub(crate) mod span;
 #[cfg(test)]
 mod tests;
 mod units;
@@ -139,6 +139,17 @@ pub fn parse_case_in(
     origin: &str,
     steps: &[Step<'_>],
 ) -> Result<ResolvedCase, CaseError> {
+    parse_case_in_with(text, origin, steps, None)
+}
+
+/// As [`parse_case_in`], with a κ to use when the table gives neither
+/// `kappa` nor `length` (a sweep family whose κ comes from its axis).
+pub fn parse_case_in_with(
+    text: &str,
+    origin: &str,
+    steps: &[Step<'_>],
+    kappa_default: Option<f64>,
+) -> Result<ResolvedCase, CaseError> {
     use toml::de::DeValue;
     let src = span::Source { text, origin };
     let root = toml::de::DeTable::parse(text).map_err(|e| syntax_error(&src, &e))?;
@@ -189,7 +200,7 @@ pub fn parse_case_in(
         }
         i += 1;
     }
-    resolve::resolve_in(&src, table, &path, span)
+    resolve::resolve_in(&src, table, &path, span, kappa_default)
 }
 
 /// A TOML syntax error as a [`CaseError`].

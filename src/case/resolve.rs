@@ -230,11 +230,13 @@ struct Builder<'s> {
     reg: Reg,
     notes: Vec<String>,
     named_height_used: bool,
+    /// κ to use when the case gives neither `kappa` nor `length` (sweeps).
+    kappa_default: Option<f64>,
 }
 
 /// Resolve a parsed document.
 pub(crate) fn resolve(src: &Source<'_>, root: &DeTable<'_>) -> Result<ResolvedCase, CaseError> {
-    resolve_in(src, root, "", 0..0)
+    resolve_in(src, root, "", 0..0, None)
 }
 
 /// Resolve a case held in a table of a larger document (for example a
@@ -246,6 +248,7 @@ pub(crate) fn resolve_in(
     root: &DeTable<'_>,
     path: &str,
     root_span: Range<usize>,
+    kappa_default: Option<f64>,
 ) -> Result<ResolvedCase, CaseError> {
     let top = Tab {
         src,
@@ -266,6 +269,19 @@ pub(crate) fn resolve_in(
                 "a case is either dimensionless (top-level `kappa`) or physical (top-level `length`), not both; \
                  remove one of the two",
             ))
+        }
+        (None, None) if kappa_default.is_some() => {
+            // A sweep family supplies κ from its axis.
+            let mut b = Builder {
+                src,
+                phys: None,
+                reg: Reg::default(),
+                notes: Vec::new(),
+                named_height_used: false,
+                kappa_default: None,
+            };
+            b.kappa_default = kappa_default;
+            b.dimensionless(&top)
         }
         (None, None) => {
             let mut all = concat(DIMLESS_TOP, PHYS_TOP);
@@ -298,6 +314,7 @@ pub(crate) fn resolve_in(
                 reg: Reg::default(),
                 notes: Vec::new(),
                 named_height_used: false,
+                kappa_default: None,
             };
             b.dimensionless(&top)
         }
@@ -308,6 +325,7 @@ pub(crate) fn resolve_in(
                 reg: Reg::default(),
                 notes: Vec::new(),
                 named_height_used: false,
+                kappa_default: None,
             };
             b.physical(&top)
         }
@@ -1055,8 +1073,13 @@ impl<'s> Builder<'s> {
             _ => None,
         })?;
         let kappa = top
-            .num_min("kappa", None, false, "the torsion parameter κ")?
-            .expect("kappa present");
+            .num_min(
+                "kappa",
+                self.kappa_default,
+                false,
+                "the torsion parameter κ",
+            )?
+            .expect("kappa present or defaulted");
         self.reg.add_num("kappa", &kappa);
         let delta = top.num("delta")?;
         let (dk, ds) = loc(top, "delta");

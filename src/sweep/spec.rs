@@ -1,0 +1,400 @@
+//! The sweep spec (TOML): families, each a base case plus axes, read with
+//! located errors (file, line, column, key) like case files.
+//!
+//! ```toml
+//! [[family]]
+//! name = "cantilever-tip-load"      # [a-z0-9][a-z0-9-]*, unique
+//! kappa = [0.1, 0.5, 1.0]           # or { from = 0.1, to = 3.0, count = 12, spacing = "log" }
+//! zeta = [-0.5, 0.0, "kappa", "-kappa", "1.05*kappa"]   # or a range table
+//! zeta_load = "tip"                 # optional: ζ applies to this named load only
+//! direction = ["down", "up"]        # optional axis
+//! [family.case]                     # inline case, or case = "cases/x.toml" (relative to the spec)
+//! ```
+//!
+//! Axes keep the order in which they appear in the family; the last varies
+//! fastest.
+
+use super::{Axis, AxisValue, Direction, Family};
+use crate::case::schema::{Tab, TabLoc, did_you_mean_value, number, type_name};
+use crate::case::span::Source;
+use crate::case::{CaseError, Step, load_case, parse_case_in_with};
+use std::path::Path;
+use toml::de::{DeTable, DeValue};
+
+/// Keys of a `[[family]]` table.
+const FAMILY_KEYS: &[&str] = &["name", "kappa", "zeta", "zeta_load", "direction", "case"];
+/// Keys of a range table.
+const RANGE_KEYS: &[&str] = &["from", "to", "count", "spacing"];
+
+/// A parsed spec.
+#[derive(Debug, Clone)]
+pub struct Spec {
+    /// The families, in file order.
+    pub families: Vec<Family>,
+}
+
+/// Parse a spec. `origin` names the file in errors; `dir` is where relative
+/// case paths start.
+pub fn parse_spec(text: &str, origin: &str, dir: &Path) -> Result<Spec, CaseError> {
+    let src = Source { text, origin };
+    let root = DeTable::parse(text).map_err(|e| {
+        let span = e.span().unwrap_or(0..0);
+        src.error(
+            &span,
+            "",
+            format!("TOML syntax error: {}", e.message().trim()),
+        )
+    })?;
+    let top_span = 0..0;
+    let top = Tab {
+        src: &src,
+        path: "",
+        span: &top_span,
+        t: root.get_ref(),
+    };
+    top.check_keys(&["family"], &|_| None)?;
+    let fams = top.tables("family")?;
+    if fams.is_empty() {
+        return Err(src.error(
+            &(0..0),
+            "family",
+            "the spec holds no family: add at least one [[family]] table",
+        ));
+    }
+    let mut families: Vec<Family> = Vec::new();
+    for (i, loc) in fams.iter().enumerate() {
+        let f = parse_family(&src, loc, i, dir)?;
+        if let Some(prev) = families.iter().find(|p| p.name == f.name) {
+            let t = loc.tab(&src);
+            return Err(t.err_at(
+                "name",
+                format!(
+                    "family name \"{}\" is used twice; names become file names and must be unique",
+                    prev.name
+                ),
+            ));
+        }
+        families.push(f);
+    }
+    Ok(Spec { families })
+}
+
+fn valid_name(s: &str) -> bool {
+    let mut c = s.chars();
+    matches!(c.next(), Some(ch) if ch.is_ascii_lowercase() || ch.is_ascii_digit())
+        && s.chars()
+            .all(|ch| ch.is_ascii_lowercase() || ch.is_ascii_digit() || ch == '-')
+}
+
+fn parse_family(
+    src: &Source<'_>,
+    loc: &TabLoc<'_>,
+    index: usize,
+    dir: &Path,
+) -> Result<Family, CaseError> {
+    let t = loc.tab(src);
+    t.check_keys(FAMILY_KEYS, &|_| None)?;
+    let Some((name, nv)) = t.string("name")? else {
+        return Err(t.err_here(
+            "missing `name`: every family needs a name such as \"cantilever-tip-load\"",
+        ));
+    };
+    if !valid_name(&name) {
+        return Err(src.error(
+            &nv.span,
+            &nv.key,
+            format!("invalid family name \"{name}\": use lower-case letters, digits and '-', starting with a letter or digit (it becomes a file name)"),
+        ));
+    }
+    // The base case.
+    let case = match (t.get("case"), t.table("case")) {
+        (Some(v), _) if matches!(v.v, DeValue::String(_)) => {
+            let DeValue::String(p) = v.v else {
+                unreachable!("matched above")
+            };
+            let path = dir.join(p.as_ref());
+            load_case(&path).map_err(|mut e| {
+                if e.line == 0 {
+                    let (line, column) = src.line_col(v.span.start);
+                    e = CaseError {
+                        file: src.origin.to_string(),
+                        line,
+                        column,
+                        key: v.key.clone(),
+                        message: e.message,
+                    };
+                }
+                e
+            })?
+        }
+        (Some(_), Ok(Some(_))) => {
+            // κ may come from the family's axis alone.
+            let kappa_axis = t.get("kappa").is_some();
+            parse_case_in_with(
+                src.text,
+                src.origin,
+                &[Step::Key("family"), Step::Index(index), Step::Key("case")],
+                kappa_axis.then_some(1.0),
+            )?
+        }
+        (Some(v), _) => {
+            return Err(src.error(
+                &v.span,
+                &v.key,
+                format!(
+                    "expected a [family.case] table or a file name, found {}",
+                    type_name(v.v)
+                ),
+            ));
+        }
+        (None, _) => {
+            return Err(t.err_here(
+                "missing the base case: add a [family.case] table or `case = \"file.toml\"`",
+            ));
+        }
+    };
+    // Axes in file order.
+    let mut entries = t.entries();
+    entries.sort_by_key(|e| e.key_span.start);
+    let mut axes = Vec::new();
+    for e in &entries {
+        match e.name.as_str() {
+            "kappa" => axes.push(Axis::Kappa(numbers(src, &t, "kappa")?)),
+            "zeta" => axes.push(Axis::Zeta(zetas(src, &t)?)),
+            "direction" => axes.push(Axis::Direction(directions(src, &t)?)),
+            _ => {}
+        }
+    }
+    let zeta_load = match t.string("zeta_load")? {
+        Some((n, v)) => {
+            if !case
+                .loads
+                .iter()
+                .any(|l| l.name.as_deref() == Some(n.as_str()))
+            {
+                let names: Vec<&str> = case
+                    .loads
+                    .iter()
+                    .filter_map(|l| l.name.as_deref())
+                    .collect();
+                return Err(src.error(
+                    &v.span,
+                    &v.key,
+                    format!(
+                        "no load of the case is named \"{n}\"{}; named loads: {}",
+                        did_you_mean_value(&n, &names),
+                        if names.is_empty() {
+                            "none (give a load `name = ...`)".into()
+                        } else {
+                            names.join(", ")
+                        }
+                    ),
+                ));
+            }
+            Some(n)
+        }
+        None => None,
+    };
+    if axes.iter().any(|a| matches!(a, Axis::Kappa(_)))
+        && !matches!(case.kind, crate::case::CaseKind::Dimensionless)
+    {
+        return Err(t.err_at("kappa", "a κ axis needs a dimensionless base case (top-level `kappa`); physical sweeps take sections and lengths"));
+    }
+    Ok(Family {
+        name,
+        case,
+        axes,
+        zeta_load,
+    })
+}
+
+/// A list of numbers, or a range table { from, to, count, spacing }.
+fn numbers(src: &Source<'_>, t: &Tab<'_>, k: &str) -> Result<Vec<f64>, CaseError> {
+    let v = t.get(k).expect("key present");
+    match v.v {
+        DeValue::Array(items) => {
+            if items.is_empty() {
+                return Err(src.error(&v.span, &v.key, format!("`{k}` is an empty list: give at least one value")));
+            }
+            items
+                .iter()
+                .enumerate()
+                .map(|(i, item)| {
+                    let val = crate::case::schema::Val {
+                        name: k.into(),
+                        key: format!("{}[{i}]", v.key),
+                        key_span: v.key_span.clone(),
+                        span: item.span(),
+                        v: item.get_ref(),
+                    };
+                    number(src, &val, "").map(|n| n.value)
+                })
+                .collect()
+        }
+        DeValue::Table(_) => {
+            let loc = t.table(k)?.expect("table");
+            range(src, &loc)
+        }
+        other => Err(src.error(&v.span, &v.key, format!("expected a list of numbers or a range table {{ from, to, count, spacing }}, found {}", type_name(other)))),
+    }
+}
+
+fn range(src: &Source<'_>, loc: &TabLoc<'_>) -> Result<Vec<f64>, CaseError> {
+    let r = loc.tab(src);
+    r.check_keys(RANGE_KEYS, &|_| None)?;
+    let need = |k: &str| -> Result<crate::case::schema::Num, CaseError> {
+        r.num(k)?.ok_or_else(|| {
+            r.err_here(format!(
+                "a range needs `{k}`: {{ from, to, count, spacing = \"linear\" | \"log\" }}"
+            ))
+        })
+    };
+    let (from, to, count) = (need("from")?, need("to")?, need("count")?);
+    let log = matches!(
+        r.choice("spacing", &["linear", "log"], "spacing")?,
+        Some(("log", _))
+    );
+    if count.value < 1.0 || count.value.fract() != 0.0 || count.value > 1e7 {
+        return Err(src.error(
+            &count.span,
+            &count.key,
+            format!("`count` must be a whole number ≥ 1, got {}", count.value),
+        ));
+    }
+    if to.value < from.value {
+        return Err(src.error(
+            &to.span,
+            &to.key,
+            format!(
+                "the range is inverted: `to` = {} is below `from` = {}",
+                to.value, from.value
+            ),
+        ));
+    }
+    let n = count.value as usize;
+    if n > 1 && to.value == from.value {
+        return Err(src.error(
+            &to.span,
+            &to.key,
+            "the range is empty: `to` equals `from` with more than one value",
+        ));
+    }
+    if log && from.value <= 0.0 {
+        return Err(src.error(
+            &from.span,
+            &from.key,
+            "a logarithmic range needs `from` > 0",
+        ));
+    }
+    Ok((0..n)
+        .map(|i| {
+            let s = if n == 1 {
+                0.0
+            } else {
+                i as f64 / (n - 1) as f64
+            };
+            if i + 1 == n && n > 1 {
+                to.value
+            } else if log {
+                (from.value.ln() + s * (to.value.ln() - from.value.ln())).exp()
+            } else {
+                from.value + s * (to.value - from.value)
+            }
+        })
+        .collect())
+}
+
+/// ζ values: numbers, or multiples of κ written "kappa", "-kappa", "1.05*kappa".
+fn zetas(src: &Source<'_>, t: &Tab<'_>) -> Result<Vec<AxisValue>, CaseError> {
+    let v = t.get("zeta").expect("key present");
+    let DeValue::Array(items) = v.v else {
+        return Ok(numbers(src, t, "zeta")?
+            .into_iter()
+            .map(AxisValue::Num)
+            .collect());
+    };
+    if items.is_empty() {
+        return Err(src.error(
+            &v.span,
+            &v.key,
+            "`zeta` is an empty list: give at least one value",
+        ));
+    }
+    let mut out = Vec::new();
+    for (i, item) in items.iter().enumerate() {
+        let key = format!("{}[{i}]", v.key);
+        match item.get_ref() {
+            DeValue::String(s) => match parse_kappa_multiple(s) {
+                Some(c) => out.push(AxisValue::KappaTimes(c)),
+                None => {
+                    return Err(src.error(&item.span(), &key, format!("\"{s}\" is neither a number nor a multiple of κ; write for example 0.5, \"kappa\", \"-kappa\" or \"1.05*kappa\"")));
+                }
+            },
+            _ => {
+                let val = crate::case::schema::Val {
+                    name: "zeta".into(),
+                    key,
+                    key_span: v.key_span.clone(),
+                    span: item.span(),
+                    v: item.get_ref(),
+                };
+                out.push(AxisValue::Num(
+                    number(src, &val, " or a multiple of κ such as \"kappa\"")?.value,
+                ));
+            }
+        }
+    }
+    Ok(out)
+}
+
+/// "kappa" → 1, "-kappa" → −1, "1.05*kappa" → 1.05, "-0.5*kappa" → −0.5.
+pub fn parse_kappa_multiple(s: &str) -> Option<f64> {
+    let s = s.trim();
+    let (sign, rest) = match s.strip_prefix('-') {
+        Some(r) => (-1.0, r.trim()),
+        None => (1.0, s.strip_prefix('+').unwrap_or(s).trim()),
+    };
+    if rest == "kappa" {
+        return Some(sign);
+    }
+    let (c, k) = rest.split_once('*')?;
+    if k.trim() != "kappa" {
+        return None;
+    }
+    let c: f64 = c.trim().parse().ok()?;
+    c.is_finite().then_some(sign * c)
+}
+
+fn directions(src: &Source<'_>, t: &Tab<'_>) -> Result<Vec<Direction>, CaseError> {
+    let v = t.get("direction").expect("key present");
+    let DeValue::Array(items) = v.v else {
+        return Err(src.error(
+            &v.span,
+            &v.key,
+            format!(
+                "expected a list such as [\"down\", \"up\"], found {}",
+                type_name(v.v)
+            ),
+        ));
+    };
+    if items.is_empty() {
+        return Err(src.error(
+            &v.span,
+            &v.key,
+            "`direction` is an empty list: give [\"down\"], [\"up\"] or both",
+        ));
+    }
+    items
+        .iter()
+        .enumerate()
+        .map(|(i, item)| match item.get_ref() {
+            DeValue::String(s) if s.as_ref() == "down" => Ok(Direction::Down),
+            DeValue::String(s) if s.as_ref() == "up" => Ok(Direction::Up),
+            other => Err(src.error(
+                &item.span(),
+                &format!("{}[{i}]", v.key),
+                format!("expected \"down\" or \"up\", found {}", type_name(other)),
+            )),
+        })
+        .collect()
+}

@@ -1,0 +1,245 @@
+//! The `sweep` command's interface contract (issue 3): one CSV per family
+//! with `#` lines, the contracted header and one row per case in axis order
+//! (last axis fastest); rows equal the engine's single solves; output bytes
+//! independent of thread count and output folder; the manifest written last;
+//! failed cases keep their row; bad specs get located errors.
+//!
+//! Values are compared with the engine itself (a row must be exactly the
+//! single solve, common practice for a driver, no source) and the flange-line
+//! axis with the domain notes (for a doubly symmetric I-section the top flange
+//! sits at ζ = κ).
+
+use ltb_atlas::model::{Load, Member, Support};
+use ltb_atlas::solve::{Settings, solve};
+use ltb_atlas::sweep::fmt_num;
+use std::path::Path;
+use std::process::{Command, Output};
+
+fn run(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_ltb-atlas"))
+        .args(args)
+        .output()
+        .expect("binary runs")
+}
+
+const SPEC: &str = r#"[[family]]
+name = "cantilever-tip-load"
+kappa = [0.1, 0.5, 1.0, 2.0]
+zeta = [-0.5, 0.0, "kappa", "-kappa"]
+direction = ["down", "up"]
+[family.case]
+[family.case.start]
+preset = "built-in"
+[family.case.end]
+preset = "free"
+[[family.case.load]]
+kind = "point"
+at = 1.0
+
+[[family]]
+name = "simple-span-log"
+kappa = { from = 0.1, to = 10.0, count = 3, spacing = "log" }
+[family.case]
+[family.case.start]
+preset = "fork"
+[family.case.end]
+preset = "fork"
+[[family.case.load]]
+kind = "uniform"
+"#;
+
+fn sweep(dir: &Path, spec: &str, out: &str, extra: &[&str]) -> Output {
+    let p = dir.join("spec.toml");
+    std::fs::write(&p, spec).unwrap();
+    let o = dir.join(out);
+    let mut args = vec!["sweep", p.to_str().unwrap(), "--out", o.to_str().unwrap()];
+    args.extend_from_slice(extra);
+    run(&args)
+}
+
+fn table(text: &str) -> (Vec<String>, Vec<Vec<String>>) {
+    let mut lines = text.lines().filter(|l| !l.starts_with('#'));
+    let header = lines.next().unwrap().split(',').map(String::from).collect();
+    (
+        header,
+        lines
+            .map(|l| l.split(',').map(String::from).collect())
+            .collect(),
+    )
+}
+
+#[test]
+fn csv_follows_the_contract_and_rows_equal_single_solves() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = sweep(dir.path(), SPEC, "out", &["--quiet"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = std::fs::read_to_string(dir.path().join("out/cantilever-tip-load.csv")).unwrap();
+    assert!(text.starts_with("# Design aid only"));
+    assert!(!text.starts_with('\u{feff}'));
+    let (header, rows) = table(&text);
+    assert_eq!(
+        header,
+        [
+            "kappa",
+            "zeta",
+            "direction",
+            "mu_cr",
+            "mu_ratio",
+            "le_over_l",
+            "load_factor",
+            "error_estimate",
+            "elements",
+            "status"
+        ]
+    );
+    assert_eq!(rows.len(), 4 * 4 * 2);
+    // Last axis fastest: direction alternates, ζ changes every two rows.
+    assert_eq!((rows[0][2].as_str(), rows[1][2].as_str()), ("down", "up"));
+    assert_eq!((rows[0][1].as_str(), rows[2][1].as_str()), ("-0.5", "0"));
+    // ζ = "kappa" lands on the top flange line ζ = κ (domain notes).
+    let r = rows
+        .iter()
+        .find(|r| r[0] == "2" && r[1] == "2" && r[2] == "down")
+        .expect("row κ = 2, ζ = κ");
+    // The row is the engine's single solve of the same member.
+    let m = Member::new(2.0, Support::BUILT_IN, Support::FREE).with_load(Load::Point {
+        at: 1.0,
+        fz: -1.0,
+        zeta: 2.0,
+    });
+    let d = solve(&m, &Settings::default()).unwrap().forward;
+    assert_eq!(r[3], fmt_num(d.mu_cr.unwrap()));
+    assert_eq!(r[9], "ok");
+    // Uplift is the reversed load.
+    let up = rows
+        .iter()
+        .find(|r| r[0] == "2" && r[1] == "2" && r[2] == "up")
+        .unwrap();
+    let rev = solve(
+        &m,
+        &Settings {
+            reversed: true,
+            ..Default::default()
+        },
+    )
+    .unwrap()
+    .reversed
+    .unwrap();
+    assert_eq!(up[3], fmt_num(rev.mu_cr.unwrap()));
+    // A logarithmic range: 0.1, 1, 10.
+    let (_, log_rows) =
+        table(&std::fs::read_to_string(dir.path().join("out/simple-span-log.csv")).unwrap());
+    let ks: Vec<f64> = log_rows.iter().map(|r| r[0].parse().unwrap()).collect();
+    assert_eq!(ks.len(), 3);
+    assert!((ks[0] - 0.1).abs() < 1e-15 && (ks[1] - 1.0).abs() < 1e-12 && ks[2] == 10.0);
+    // The manifest lists every file.
+    let man: serde_json::Value = serde_json::from_str(
+        &std::fs::read_to_string(dir.path().join("out/manifest.json")).unwrap(),
+    )
+    .unwrap();
+    assert_eq!(
+        man["files"],
+        serde_json::json!(["cantilever-tip-load.csv", "simple-span-log.csv"])
+    );
+    assert_eq!(man["cases"], 35);
+}
+
+#[test]
+fn bytes_do_not_depend_on_threads_or_output_folder() {
+    let dir = tempfile::tempdir().unwrap();
+    assert!(
+        sweep(dir.path(), SPEC, "one", &["--quiet", "--jobs", "1"])
+            .status
+            .success()
+    );
+    assert!(
+        sweep(dir.path(), SPEC, "two", &["--quiet", "--jobs", "2"])
+            .status
+            .success()
+    );
+    for f in [
+        "cantilever-tip-load.csv",
+        "simple-span-log.csv",
+        "manifest.json",
+    ] {
+        let a = std::fs::read(dir.path().join("one").join(f)).unwrap();
+        let b = std::fs::read(dir.path().join("two").join(f)).unwrap();
+        assert!(a == b, "{f} differs between 1 and 2 threads / folders");
+    }
+}
+
+#[test]
+fn failed_cases_keep_their_row_and_set_the_exit_code() {
+    // Pure tension never buckles: the row stays, with its status and empty numbers.
+    let spec = "[[family]]\nname = \"tension\"\nkappa = [0.5, 1.0]\n[family.case]\naxial = -1.0\n[family.case.start]\npreset = \"fork\"\n[family.case.end]\npreset = \"fork\"\n";
+    let dir = tempfile::tempdir().unwrap();
+    let out = sweep(dir.path(), spec, "out", &["--quiet"]);
+    assert_eq!(out.status.code(), Some(1));
+    let (_, rows) = table(&std::fs::read_to_string(dir.path().join("out/tension.csv")).unwrap());
+    assert_eq!(rows.len(), 2);
+    for r in rows {
+        assert_eq!(r[9], "no-buckling");
+        assert_eq!(r[3], "");
+    }
+    assert!(dir.path().join("out/manifest.json").exists());
+}
+
+fn assert_bad(spec: &str, expect: &[&str]) {
+    let dir = tempfile::tempdir().unwrap();
+    let out = sweep(dir.path(), spec, "out", &["--quiet"]);
+    assert_eq!(out.status.code(), Some(2), "expected exit 2 for:\n{spec}");
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("spec.toml:"), "no file in: {err}");
+    for e in expect {
+        assert!(err.contains(e), "`{e}` missing from: {err}");
+    }
+    assert!(!dir.path().join("out/manifest.json").exists());
+}
+
+#[test]
+fn bad_specs_are_located() {
+    let case = "[family.case]\n[family.case.start]\npreset = \"fork\"\n[family.case.end]\npreset = \"fork\"\n[[family.case.load]]\nkind = \"uniform\"\n";
+    assert_bad(
+        &format!("[[family]]\nname = \"Bad Name\"\nkappa = [1.0]\n{case}"),
+        &[":2:", "family[0].name", "invalid family name"],
+    );
+    assert_bad(
+        &format!("[[family]]\nname = \"a\"\nkappa = []\n{case}"),
+        &[":3:", "family[0].kappa", "empty"],
+    );
+    assert_bad(
+        &format!("[[family]]\nname = \"a\"\nkappa = {{ from = 2.0, to = 1.0, count = 3 }}\n{case}"),
+        &[":3:", "inverted"],
+    );
+    assert_bad(
+        &format!("[[family]]\nname = \"a\"\nkapa = [1.0]\n{case}"),
+        &[":3:", "kapa", "kappa"],
+    );
+    assert_bad(
+        &format!("[[family]]\nname = \"a\"\nkappa = [1.0]\nzeta = [\"2*kapa\"]\n{case}"),
+        &[":4:", "family[0].zeta[0]", "multiple of κ"],
+    );
+    assert_bad(
+        &format!(
+            "[[family]]\nname = \"a\"\nkappa = [1.0]\nzeta = [0.5]\nzeta_load = \"tip\"\n{case}"
+        ),
+        &[":5:", "zeta_load", "named"],
+    );
+    assert_bad(
+        &format!(
+            "[[family]]\nname = \"a\"\nkappa = [1.0]\n{case}[[family]]\nname = \"a\"\nkappa = [2.0]\n{case}"
+        ),
+        &["used twice"],
+    );
+    assert_bad(
+        &format!(
+            "[[family]]\nname = \"a\"\nkappa = [1.0]\n{}",
+            case.replace("\"uniform\"", "\"uniformm\"")
+        ),
+        &["family[0].case.load[0].kind"],
+    );
+}
