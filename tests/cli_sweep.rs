@@ -243,3 +243,55 @@ fn bad_specs_are_located() {
         &["family[0].case.load[0].kind"],
     );
 }
+
+#[test]
+fn end_condition_variants_follow_the_domain_notes() {
+    // Domain notes: κ = 1, top-flange tip load, μ = 3.78 with the root
+    // warping-fixed and 2.46 free to warp; a tip restraint on the top flange
+    // is far more effective than on the bottom flange.
+    let spec = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/data/cantilever-variants.toml"
+    ))
+    .unwrap();
+    let dir = tempfile::tempdir().unwrap();
+    let out = sweep(dir.path(), &spec, "out", &["--quiet"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let (header, rows) =
+        table(&std::fs::read_to_string(dir.path().join("out/cantilever-variants.csv")).unwrap());
+    assert_eq!(&header[..4], ["kappa", "zeta", "variant", "direction"]);
+    let mu = |v: &str| -> f64 {
+        rows.iter()
+            .find(|r| r[0] == "1" && r[1] == "1" && r[2] == v)
+            .unwrap()[4]
+            .parse()
+            .unwrap()
+    };
+    assert!((mu("root-warping-fixed") - 3.78).abs() < 0.005);
+    assert!((mu("root-warping-free") - 2.46).abs() < 0.005);
+    assert!(mu("tip-top-flange") > mu("tip-bottom-flange") * 1.3);
+    // A variant's restraint at "kappa" sits on the top flange for every κ:
+    // at κ = 0.5 the row equals a single solve with the restraint at ζ = 0.5.
+    let m = Member::new(0.5, Support::BUILT_IN, Support::FREE)
+        .with_load(Load::Point {
+            at: 1.0,
+            fz: -1.0,
+            zeta: 0.5,
+        })
+        .with_restraint(ltb_atlas::model::Restraint {
+            at: 1.0,
+            zeta: 0.5,
+            lateral: ltb_atlas::model::Fixity::Fixed,
+            twist: ltb_atlas::model::Fixity::Free,
+        });
+    let d = solve(&m, &Settings::default()).unwrap().forward;
+    let r = rows
+        .iter()
+        .find(|r| r[0] == "0.5" && r[1] == "0.5" && r[2] == "tip-top-flange")
+        .unwrap();
+    assert_eq!(r[4], fmt_num(d.mu_cr.unwrap()));
+}

@@ -203,6 +203,18 @@ pub fn parse_case_in_with(
     resolve::resolve_in(&src, table, &path, span, kappa_default)
 }
 
+/// Resolve a case from a table of an already parsed document (crate use:
+/// sweep variants merge tables before resolving them).
+pub(crate) fn resolve_table(
+    src: &span::Source<'_>,
+    table: &toml::de::DeTable<'_>,
+    path: &str,
+    span: std::ops::Range<usize>,
+    kappa_default: Option<f64>,
+) -> Result<ResolvedCase, CaseError> {
+    resolve::resolve_in(src, table, path, span, kappa_default)
+}
+
 /// A TOML syntax error as a [`CaseError`].
 fn syntax_error(src: &span::Source<'_>, e: &toml::de::Error) -> CaseError {
     let span = e.span().unwrap_or(0..0);

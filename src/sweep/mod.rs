@@ -10,6 +10,7 @@
 //! byte-identical whatever the thread count, and memory stays bounded.
 
 pub mod spec;
+mod variant;
 
 use crate::case::ResolvedCase;
 use crate::model::{Load, Member};
@@ -45,6 +46,19 @@ pub enum Axis {
     Zeta(Vec<AxisValue>),
     /// Load directions.
     Direction(Vec<Direction>),
+    /// End-condition variants (indices into [`Family::variants`]).
+    Variant(Vec<usize>),
+}
+
+/// A named end-condition variant: the base case with a patch merged in.
+#[derive(Debug, Clone)]
+pub struct Variant {
+    /// File-name-safe name (the `variant` column).
+    pub name: String,
+    /// The resolved case of this variant.
+    pub case: ResolvedCase,
+    /// Restraints whose height follows κ: (restraint index, multiple of κ).
+    pub kappa_zetas: Vec<(usize, f64)>,
 }
 
 impl Axis {
@@ -54,6 +68,7 @@ impl Axis {
             Axis::Kappa(_) => "kappa",
             Axis::Zeta(_) => "zeta",
             Axis::Direction(_) => "direction",
+            Axis::Variant(_) => "variant",
         }
     }
     fn len(&self) -> usize {
@@ -61,6 +76,7 @@ impl Axis {
             Axis::Kappa(v) => v.len(),
             Axis::Zeta(v) => v.len(),
             Axis::Direction(v) => v.len(),
+            Axis::Variant(v) => v.len(),
         }
     }
 }
@@ -76,6 +92,8 @@ pub struct Family {
     pub axes: Vec<Axis>,
     /// ζ applies to this named load only (else to every transverse load).
     pub zeta_load: Option<String>,
+    /// End-condition variants, if the family has a `variant` axis.
+    pub variants: Vec<Variant>,
 }
 
 /// One grid point, resolved.
@@ -87,6 +105,8 @@ pub struct Point {
     pub zeta: Option<f64>,
     /// Load direction.
     pub direction: Direction,
+    /// Variant name (None without a variant axis).
+    pub variant: Option<String>,
     /// The member to solve.
     pub member: Member,
 }
@@ -124,7 +144,14 @@ impl Family {
             *ix = r % a.len();
             r /= a.len();
         }
-        let mut m = self.case.member.clone();
+        let mut variant: Option<&Variant> = None;
+        for (a, &ix) in self.axes.iter().zip(&idx) {
+            if let Axis::Variant(v) = a {
+                variant = Some(&self.variants[v[ix]]);
+            }
+        }
+        let case = variant.map_or(&self.case, |v| &v.case);
+        let mut m = case.member.clone();
         let mut direction = Direction::Down;
         let mut zeta_value: Option<AxisValue> = None;
         for (a, &ix) in self.axes.iter().zip(&idx) {
@@ -132,6 +159,14 @@ impl Family {
                 Axis::Kappa(v) => m.kappa = v[ix],
                 Axis::Zeta(v) => zeta_value = Some(v[ix]),
                 Axis::Direction(v) => direction = v[ix],
+                Axis::Variant(_) => {}
+            }
+        }
+        if let Some(v) = variant {
+            for &(r, c) in &v.kappa_zetas {
+                if let Some(rr) = m.restraints.get_mut(r) {
+                    rr.zeta = c * m.kappa;
+                }
             }
         }
         let targeted = |k: usize| match &self.zeta_load {
@@ -175,6 +210,7 @@ impl Family {
             kappa: m.kappa,
             zeta,
             direction,
+            variant: variant.map(|v| v.name.clone()),
             member: m,
         }
     }
@@ -281,6 +317,7 @@ pub fn write_row(
                 "down"
             }
             .into(),
+            "variant" => p.variant.clone().unwrap_or_default(),
             "mu_cr" => opt(r.mu_cr),
             "mu_ratio" => opt(r.mu_cr.map(|m| m / r.mu0)),
             "le_over_l" => opt(r.mu_cr.map(|m| le_over_l(m, p.kappa))),

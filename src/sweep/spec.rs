@@ -22,7 +22,15 @@ use std::path::Path;
 use toml::de::{DeTable, DeValue};
 
 /// Keys of a `[[family]]` table.
-const FAMILY_KEYS: &[&str] = &["name", "kappa", "zeta", "zeta_load", "direction", "case"];
+const FAMILY_KEYS: &[&str] = &[
+    "name",
+    "kappa",
+    "zeta",
+    "zeta_load",
+    "direction",
+    "case",
+    "variant",
+];
 /// Keys of a range table.
 const RANGE_KEYS: &[&str] = &["from", "to", "count", "spacing"];
 
@@ -79,7 +87,7 @@ pub fn parse_spec(text: &str, origin: &str, dir: &Path) -> Result<Spec, CaseErro
     Ok(Spec { families })
 }
 
-fn valid_name(s: &str) -> bool {
+pub(crate) fn valid_name(s: &str) -> bool {
     let mut c = s.chars();
     matches!(c.next(), Some(ch) if ch.is_ascii_lowercase() || ch.is_ascii_digit())
         && s.chars()
@@ -162,6 +170,7 @@ fn parse_family(
             "kappa" => axes.push(Axis::Kappa(numbers(src, &t, "kappa")?)),
             "zeta" => axes.push(Axis::Zeta(zetas(src, &t)?)),
             "direction" => axes.push(Axis::Direction(directions(src, &t)?)),
+            "variant" => axes.push(Axis::Variant((0..t.tables("variant")?.len()).collect())),
             _ => {}
         }
     }
@@ -200,11 +209,13 @@ fn parse_family(
     {
         return Err(t.err_at("kappa", "a κ axis needs a dimensionless base case (top-level `kappa`); physical sweeps take sections and lengths"));
     }
+    let variants = super::variant::variants(src, &t, &case)?;
     Ok(Family {
         name,
         case,
         axes,
         zeta_load,
+        variants,
     })
 }
 
