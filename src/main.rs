@@ -281,6 +281,7 @@ fn sweep_cmd(
         let mut tmp = tempfile::NamedTempFile::new_in(out)
             .with_context(|| format!("cannot write in {}", out.display()))?;
         let mut failed = 0usize;
+        let mut cells: Vec<sweep::Cell> = Vec::with_capacity(f.size());
         {
             let mut buf = std::io::BufWriter::new(tmp.as_file_mut());
             sweep::preamble(&mut buf, f, &hash, tol)?;
@@ -304,6 +305,7 @@ fn sweep_cmd(
                     if r.status != "ok" {
                         failed += 1;
                     }
+                    cells.push(sweep::Cell::from(r));
                     sweep::write_row(&mut w, f, r)?;
                 }
                 start = end;
@@ -315,17 +317,21 @@ fn sweep_cmd(
         tmp.persist(out.join(&name))
             .with_context(|| format!("cannot write {}", out.join(&name).display()))?;
         failed_total += failed;
-        fam_json.push(
-            serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name}),
-        );
-        files.push(name);
+        let mut tables = Vec::new();
+        for (tname, bytes) in sweep::print_tables(f, &cells, &hash) {
+            write_atomic(&out.join(&tname), &bytes)?;
+            tables.push(tname);
+        }
+        fam_json.push(serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name, "print_tables": tables}));
+        files.push(name.clone());
+        files.extend(tables);
         if !quiet && !show_bar {
             eprintln!(
                 "family {}: {} cases, {} not ok -> {}",
                 f.name,
                 f.size(),
                 failed,
-                files.last().expect("pushed")
+                name
             );
         }
     }

@@ -143,7 +143,12 @@ fn csv_follows_the_contract_and_rows_equal_single_solves() {
     .unwrap();
     assert_eq!(
         man["files"],
-        serde_json::json!(["cantilever-tip-load.csv", "simple-span-log.csv"])
+        serde_json::json!([
+            "cantilever-tip-load.csv",
+            "cantilever-tip-load.down.table.csv",
+            "cantilever-tip-load.up.table.csv",
+            "simple-span-log.csv"
+        ])
     );
     assert_eq!(man["cases"], 35);
 }
@@ -294,4 +299,59 @@ fn end_condition_variants_follow_the_domain_notes() {
         .find(|r| r[0] == "0.5" && r[1] == "0.5" && r[2] == "tip-top-flange")
         .unwrap();
     assert_eq!(r[4], fmt_num(d.mu_cr.unwrap()));
+}
+
+#[test]
+fn print_tables_round_toward_the_safe_side() {
+    let dir = tempfile::tempdir().unwrap();
+    assert!(
+        sweep(dir.path(), SPEC, "out", &["--quiet"])
+            .status
+            .success()
+    );
+    let (_, rows) =
+        table(&std::fs::read_to_string(dir.path().join("out/cantilever-tip-load.csv")).unwrap());
+    for dirn in ["down", "up"] {
+        let text = std::fs::read_to_string(
+            dir.path()
+                .join(format!("out/cantilever-tip-load.{dirn}.table.csv")),
+        )
+        .unwrap();
+        let (header, lines) = table(&text);
+        assert_eq!(
+            header,
+            ["kappa", "zeta=-0.5", "zeta=0", "zeta=kappa", "zeta=-kappa"]
+        );
+        assert_eq!(lines.len(), 4);
+        for line in &lines {
+            for (zi, cell) in line[1..].iter().enumerate() {
+                // The matching machine row: same κ, ζ column, direction.
+                let zeta_of = |k: f64| match zi {
+                    0 => -0.5,
+                    1 => 0.0,
+                    2 => k,
+                    _ => -k,
+                };
+                let k: f64 = line[0].parse().unwrap();
+                let r = rows
+                    .iter()
+                    .find(|r| {
+                        r[0].parse::<f64>().unwrap() == k
+                            && r[1].parse::<f64>().unwrap() == zeta_of(k)
+                            && r[2] == dirn
+                    })
+                    .unwrap();
+                let exact: f64 = r[3].parse().unwrap();
+                let est: f64 = r[7].parse().unwrap();
+                let printed: f64 = cell.parse().unwrap();
+                // Rounded down (safe side for a critical moment), and by no
+                // more than ten times the value's own absolute error.
+                assert!(printed <= exact, "{printed} > {exact}");
+                assert!(
+                    exact - printed <= 10.0 * est * exact + 1e-12,
+                    "{printed} vs {exact} (estimate {est})"
+                );
+            }
+        }
+    }
 }

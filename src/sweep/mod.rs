@@ -330,3 +330,165 @@ pub fn write_row(
     }
     w.write_record(&rec)
 }
+
+/// What a print table needs of one row.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Cell {
+    /// μcr, if the case buckled.
+    pub mu_cr: Option<f64>,
+    /// Its relative error estimate.
+    pub error_estimate: Option<f64>,
+    /// True when the status is "ok".
+    pub ok: bool,
+}
+
+impl From<&Row> for Cell {
+    fn from(r: &Row) -> Cell {
+        Cell {
+            mu_cr: r.mu_cr,
+            error_estimate: r.error_estimate,
+            ok: r.status == "ok",
+        }
+    }
+}
+
+/// `x` rounded down (toward zero for positive values: the safe side for a
+/// critical moment) to the last decimal that its absolute error
+/// `x·estimate` leaves meaningful:
+///
+/// ```text
+/// q = ⌈log10(x·e)⌉,   printed = ⌊x / 10^q⌋ · 10^q   with max(0, −q) decimals
+/// ```
+pub fn round_down(x: f64, estimate: f64) -> String {
+    let err = (x.abs() * estimate.max(1e-12)).max(f64::MIN_POSITIVE);
+    let q = err.log10().ceil() as i32;
+    let step = 10f64.powi(q);
+    let v = (x / step).floor() * step;
+    let decimals = (-q).max(0) as usize;
+    let s = format!("{:.*}", decimals, v);
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
+}
+
+fn axis_label(a: &Axis, i: usize, f: &Family) -> String {
+    match a {
+        Axis::Kappa(v) => fmt_num(v[i]),
+        Axis::Zeta(v) => match v[i] {
+            AxisValue::Num(x) => fmt_num(x),
+            AxisValue::KappaTimes(1.0) => "kappa".into(),
+            AxisValue::KappaTimes(-1.0) => "-kappa".into(),
+            AxisValue::KappaTimes(c) => format!("{}*kappa", fmt_num(c)),
+        },
+        Axis::Direction(v) => if v[i] == Direction::Up { "up" } else { "down" }.into(),
+        Axis::Variant(v) => f.variants[v[i]].name.clone(),
+    }
+}
+
+/// Wide print tables of a family with both a κ and a ζ axis: μcr with κ
+/// down and ζ across, one table per combination of the other axes (in spec
+/// order), values rounded down to the digits their error estimate supports;
+/// a case that did not end "ok" shows its status. Returns (file name, bytes).
+pub fn print_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, Vec<u8>)> {
+    let ka = f.axes.iter().position(|a| matches!(a, Axis::Kappa(_)));
+    let za = f.axes.iter().position(|a| matches!(a, Axis::Zeta(_)));
+    let (Some(ka), Some(za)) = (ka, za) else {
+        return Vec::new();
+    };
+    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
+    let others: Vec<usize> = (0..f.axes.len()).filter(|&a| a != ka && a != za).collect();
+    let combos: usize = others.iter().map(|&a| lens[a]).product();
+    let index = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
+    let mut out = Vec::new();
+    for c in 0..combos {
+        let mut idx = vec![0; f.axes.len()];
+        let mut r = c;
+        for &a in others.iter().rev() {
+            idx[a] = r % lens[a];
+            r /= lens[a];
+        }
+        let combo: Vec<String> = others
+            .iter()
+            .map(|&a| axis_label(&f.axes[a], idx[a], f))
+            .collect();
+        let combo_name = if combo.is_empty() {
+            "all".to_string()
+        } else {
+            combo.join(".")
+        };
+        let mut b: Vec<u8> = Vec::new();
+        let _ = writeln!(b, "# {}", crate::CAUTION);
+        let _ = writeln!(
+            b,
+            "# family {} ({}); ltb-atlas {}; spec sha256 {spec_hash}",
+            f.name,
+            if combo.is_empty() {
+                "all cases".to_string()
+            } else {
+                others
+                    .iter()
+                    .zip(&combo)
+                    .map(|(&a, v)| format!("{} = {v}", f.axes[a].column()))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            },
+            env!("CARGO_PKG_VERSION")
+        );
+        let _ = writeln!(
+            b,
+            "# mu_cr = Mcr*L/sqrt(E*Iz*G*It), kappa down, zeta across (height above the shear centre; \"kappa\" = top flange \
+             centroid of a doubly symmetric I-section); values rounded down to the digits their error estimate supports"
+        );
+        let mut header = vec!["kappa".to_string()];
+        for zi in 0..lens[za] {
+            header.push(format!("zeta={}", axis_label(&f.axes[za], zi, f)));
+        }
+        let _ = writeln!(b, "{}", header.join(","));
+        for ki in 0..lens[ka] {
+            let mut line = vec![axis_label(&f.axes[ka], ki, f)];
+            for zi in 0..lens[za] {
+                idx[ka] = ki;
+                idx[za] = zi;
+                let cell = &cells[index(&idx)];
+                line.push(match (cell.ok, cell.mu_cr, cell.error_estimate) {
+                    (true, Some(m), Some(e)) => round_down(m, e),
+                    _ => "not-ok".into(),
+                });
+            }
+            let _ = writeln!(b, "{}", line.join(","));
+        }
+        out.push((format!("{}.{combo_name}.table.csv", f.name), b));
+    }
+    out
+}
+
+////////////////////////////////////////////////////////////////////////////////
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn round_down_keeps_the_digits_the_estimate_supports() {
+        // Absolute error 3.7787·7e-5 = 2.6e-4 → three decimals, rounded down.
+        assert_eq!(round_down(3.778761, 7e-5), "3.778");
+        assert_eq!(round_down(3.778761, 1e-7), "3.778761");
+        assert_eq!(round_down(18.4199, 5e-5), "18.419");
+        // Absolute error 1.2 → the units digit is not supported.
+        assert_eq!(round_down(1234.5, 1e-3), "1230");
+        assert_eq!(round_down(1234.5, 1e-4), "1234");
+    }
+
+    #[test]
+    fn kappa_multiples_parse() {
+        use super::spec::parse_kappa_multiple as p;
+        assert_eq!(p("kappa"), Some(1.0));
+        assert_eq!(p("-kappa"), Some(-1.0));
+        assert_eq!(p("1.05*kappa"), Some(1.05));
+        assert_eq!(p("-0.5 * kappa"), Some(-0.5));
+        assert_eq!(p("2*kapa"), None);
+        assert_eq!(p("kappa*2"), None);
+    }
+}
