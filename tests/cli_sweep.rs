@@ -355,3 +355,111 @@ fn print_tables_round_toward_the_safe_side() {
         }
     }
 }
+
+#[test]
+fn path_axes_change_the_named_field() {
+    // ψ of end moments and the stiffness of a named restraint; each row is
+    // the single solve of the member with that field set (a driver test, no
+    // published value needed beyond the engine's own verification).
+    let spec = r#"[[family]]
+name = "brace"
+kappa = [1.0]
+[[family.axis]]
+path = "restraint.brace.lateral"
+values = { from = 0.01, to = 100.0, count = 3, spacing = "log" }
+[family.case]
+[family.case.start]
+preset = "built-in"
+[family.case.end]
+preset = "free"
+[[family.case.load]]
+kind = "point"
+at = 1.0
+zeta = 1.0
+[[family.case.restraint]]
+name = "brace"
+at = 1.0
+zeta = 1.0
+lateral = 1.0
+
+[[family]]
+name = "psi"
+kappa = [0.5]
+[[family.axis]]
+path = "psi"
+values = [1.0, -0.5]
+[family.case]
+[family.case.start]
+preset = "fork"
+[family.case.end]
+preset = "fork"
+[[family.case.load]]
+kind = "end-moments"
+start = 1.0
+end = 1.0
+"#;
+    let dir = tempfile::tempdir().unwrap();
+    let out = sweep(dir.path(), spec, "out", &["--quiet"]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let (header, rows) = table(&std::fs::read_to_string(dir.path().join("out/brace.csv")).unwrap());
+    assert_eq!(header[1], "restraint.brace.lateral");
+    assert_eq!(
+        [
+            rows[0][1].as_str(),
+            rows[1][1].as_str(),
+            rows[2][1].as_str()
+        ],
+        ["0.01", "1", "100"]
+    );
+    let single = |k: f64| {
+        let m = Member::new(1.0, Support::BUILT_IN, Support::FREE)
+            .with_load(Load::Point {
+                at: 1.0,
+                fz: -1.0,
+                zeta: 1.0,
+            })
+            .with_restraint(ltb_atlas::model::Restraint {
+                at: 1.0,
+                zeta: 1.0,
+                lateral: ltb_atlas::model::Fixity::Spring(k),
+                twist: ltb_atlas::model::Fixity::Free,
+            });
+        fmt_num(
+            solve(&m, &Settings::default())
+                .unwrap()
+                .forward
+                .mu_cr
+                .unwrap(),
+        )
+    };
+    assert_eq!(rows[2][4], single(100.0));
+    let (_, rows) = table(&std::fs::read_to_string(dir.path().join("out/psi.csv")).unwrap());
+    let m = Member::new(0.5, Support::FORK, Support::FORK).with_load(Load::EndMoments {
+        start: 1.0,
+        end: -0.5,
+    });
+    assert_eq!(
+        rows[1][4],
+        fmt_num(
+            solve(&m, &Settings::default())
+                .unwrap()
+                .forward
+                .mu_cr
+                .unwrap()
+        )
+    );
+    // A path that names nothing is refused where it is written.
+    let bad = spec.replace("restraint.brace.lateral", "restraint.bracee.lateral");
+    let dir = tempfile::tempdir().unwrap();
+    let out = sweep(dir.path(), &bad, "out", &["--quiet"]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("spec.toml:5:") && err.contains("bracee") && err.contains("brace"),
+        "{err}"
+    );
+}

@@ -31,6 +31,8 @@ pub struct ResolvedCase {
     pub tolerance: Option<f64>,
     /// Notes the report must print (for example "κ = 0: warping restraints ignored").
     pub notes: Vec<String>,
+    /// The `name` of each `[[restraint]]`, in file order (sweep axes address them).
+    pub restraint_names: Vec<Option<String>>,
 }
 
 /// Which kind of case.

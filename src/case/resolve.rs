@@ -232,6 +232,8 @@ struct Builder<'s> {
     named_height_used: bool,
     /// κ to use when the case gives neither `kappa` nor `length` (sweeps).
     kappa_default: Option<f64>,
+    /// `name` of each restraint, in file order.
+    restraint_names: Vec<Option<String>>,
 }
 
 /// Resolve a parsed document.
@@ -279,6 +281,7 @@ pub(crate) fn resolve_in(
                 notes: Vec::new(),
                 named_height_used: false,
                 kappa_default: None,
+                restraint_names: Vec::new(),
             };
             b.kappa_default = kappa_default;
             b.dimensionless(&top)
@@ -315,6 +318,7 @@ pub(crate) fn resolve_in(
                 notes: Vec::new(),
                 named_height_used: false,
                 kappa_default: None,
+                restraint_names: Vec::new(),
             };
             b.dimensionless(&top)
         }
@@ -326,6 +330,7 @@ pub(crate) fn resolve_in(
                 notes: Vec::new(),
                 named_height_used: false,
                 kappa_default: None,
+                restraint_names: Vec::new(),
             };
             b.physical(&top)
         }
@@ -742,7 +747,8 @@ impl<'s> Builder<'s> {
                     _ => None,
                 })
             })?;
-            t.string("name")?;
+            let name = t.string("name")?.map(|(s, _)| s);
+            self.restraint_names.push(name);
             let at = self.position(&t, "at", None, "position of the restraint")?;
             let lateral = self.fixity(&t, "lateral", Fixity::Free, Dof::Lateral)?;
             let twist = self.fixity(&t, "twist", Fixity::Free, Dof::Twist)?;
@@ -1422,6 +1428,7 @@ impl<'s> Builder<'s> {
             loads,
             tolerance,
             notes: std::mem::take(&mut self.notes),
+            restraint_names: std::mem::take(&mut self.restraint_names),
         })
     }
 

@@ -9,6 +9,7 @@
 //! solved in chunks on a rayon pool and written in order, so the output is
 //! byte-identical whatever the thread count, and memory stays bounded.
 
+pub mod path;
 pub mod spec;
 mod variant;
 
@@ -48,6 +49,15 @@ pub enum Axis {
     Direction(Vec<Direction>),
     /// End-condition variants (indices into [`Family::variants`]).
     Variant(Vec<usize>),
+    /// Any numeric field of the case, by path (see [`path`]).
+    Path {
+        /// The path as written (the CSV column name).
+        name: String,
+        /// The resolved field.
+        field: path::FieldPath,
+        /// Values, in the model's dimensionless units.
+        values: Vec<f64>,
+    },
 }
 
 /// A named end-condition variant: the base case with a patch merged in.
@@ -63,12 +73,13 @@ pub struct Variant {
 
 impl Axis {
     /// The CSV column name.
-    pub fn column(&self) -> &'static str {
+    pub fn column(&self) -> &str {
         match self {
             Axis::Kappa(_) => "kappa",
             Axis::Zeta(_) => "zeta",
             Axis::Direction(_) => "direction",
             Axis::Variant(_) => "variant",
+            Axis::Path { name, .. } => name,
         }
     }
     fn len(&self) -> usize {
@@ -77,6 +88,7 @@ impl Axis {
             Axis::Zeta(v) => v.len(),
             Axis::Direction(v) => v.len(),
             Axis::Variant(v) => v.len(),
+            Axis::Path { values, .. } => values.len(),
         }
     }
 }
@@ -107,6 +119,8 @@ pub struct Point {
     pub direction: Direction,
     /// Variant name (None without a variant axis).
     pub variant: Option<String>,
+    /// Values of the path axes, in axis order.
+    pub paths: Vec<f64>,
     /// The member to solve.
     pub member: Member,
 }
@@ -159,7 +173,7 @@ impl Family {
                 Axis::Kappa(v) => m.kappa = v[ix],
                 Axis::Zeta(v) => zeta_value = Some(v[ix]),
                 Axis::Direction(v) => direction = v[ix],
-                Axis::Variant(_) => {}
+                Axis::Variant(_) | Axis::Path { .. } => {}
             }
         }
         if let Some(v) = variant {
@@ -187,6 +201,12 @@ impl Family {
                 }
             }
         }
+        // Path axes last among the changes, so an explicit path wins.
+        for (a, &ix) in self.axes.iter().zip(&idx) {
+            if let Axis::Path { field, values, .. } = a {
+                path::apply(&mut m, field, values[ix]);
+            }
+        }
         if direction == Direction::Up {
             for l in m.loads.iter_mut() {
                 match l {
@@ -211,6 +231,15 @@ impl Family {
             zeta,
             direction,
             variant: variant.map(|v| v.name.clone()),
+            paths: self
+                .axes
+                .iter()
+                .zip(&idx)
+                .filter_map(|(a, &ix)| match a {
+                    Axis::Path { values, .. } => Some(values[ix]),
+                    _ => None,
+                })
+                .collect(),
             member: m,
         }
     }
@@ -246,22 +275,25 @@ pub fn solve_point(p: Point, s: &Settings) -> Row {
 }
 
 /// The CSV header of a family.
-pub fn header(f: &Family) -> Vec<&'static str> {
-    let mut h: Vec<&'static str> = f.axes.iter().map(Axis::column).collect();
+pub fn header(f: &Family) -> Vec<String> {
+    let mut h: Vec<String> = f.axes.iter().map(|a| a.column().to_string()).collect();
     for c in ["kappa", "zeta", "direction"] {
-        if !h.contains(&c) {
-            h.push(c);
+        if !h.iter().any(|x| x == c) {
+            h.push(c.to_string());
         }
     }
-    h.extend([
-        "mu_cr",
-        "mu_ratio",
-        "le_over_l",
-        "load_factor",
-        "error_estimate",
-        "elements",
-        "status",
-    ]);
+    h.extend(
+        [
+            "mu_cr",
+            "mu_ratio",
+            "le_over_l",
+            "load_factor",
+            "error_estimate",
+            "elements",
+            "status",
+        ]
+        .map(String::from),
+    );
     h
 }
 
@@ -306,9 +338,10 @@ pub fn write_row(
     r: &Row,
 ) -> Result<(), csv::Error> {
     let mut rec: Vec<String> = Vec::new();
+    let mut paths = r.point.paths.iter();
     for c in header(f) {
         let p = &r.point;
-        rec.push(match c {
+        rec.push(match c.as_str() {
             "kappa" => fmt_num(p.kappa),
             "zeta" => opt(p.zeta),
             "direction" => if p.direction == Direction::Up {
@@ -325,7 +358,7 @@ pub fn write_row(
             "error_estimate" => opt(r.error_estimate),
             "elements" => r.elements.to_string(),
             "status" => r.status.clone(),
-            _ => String::new(),
+            _ => paths.next().map(|v| fmt_num(*v)).unwrap_or_default(),
         });
     }
     w.write_record(&rec)
@@ -384,6 +417,7 @@ fn axis_label(a: &Axis, i: usize, f: &Family) -> String {
         },
         Axis::Direction(v) => if v[i] == Direction::Up { "up" } else { "down" }.into(),
         Axis::Variant(v) => f.variants[v[i]].name.clone(),
+        Axis::Path { values, .. } => fmt_num(values[i]),
     }
 }
 

@@ -30,6 +30,7 @@ const FAMILY_KEYS: &[&str] = &[
     "direction",
     "case",
     "variant",
+    "axis",
 ];
 /// Keys of a range table.
 const RANGE_KEYS: &[&str] = &["from", "to", "count", "spacing"];
@@ -171,6 +172,53 @@ fn parse_family(
             "zeta" => axes.push(Axis::Zeta(zetas(src, &t)?)),
             "direction" => axes.push(Axis::Direction(directions(src, &t)?)),
             "variant" => axes.push(Axis::Variant((0..t.tables("variant")?.len()).collect())),
+            "axis" => {
+                for loc in t.tables("axis")? {
+                    let at = loc.tab(src);
+                    at.check_keys(&["path", "values"], &|_| None)?;
+                    let Some((p, pv)) = at.string("path")? else {
+                        return Err(at.err_here("missing `path`: for example path = \"restraint.tip.lateral\" (see the sweep documentation)"));
+                    };
+                    let field = super::path::parse_path(&p, &case)
+                        .map_err(|m| src.error(&pv.span, &pv.key, format!("`{p}`: {m}")))?;
+                    if at.get("values").is_none() {
+                        return Err(at.err_here(
+                            "missing `values`: a list, or a range { from, to, count, spacing }",
+                        ));
+                    }
+                    let values = numbers(src, &at, "values")?;
+                    let clash = [
+                        "kappa",
+                        "zeta",
+                        "direction",
+                        "variant",
+                        "mu_cr",
+                        "mu_ratio",
+                        "le_over_l",
+                        "load_factor",
+                        "error_estimate",
+                        "elements",
+                        "status",
+                    ];
+                    if clash.contains(&p.as_str()) || axes.iter().any(|a: &Axis| a.column() == p) {
+                        return Err(src.error(
+                            &pv.span,
+                            &pv.key,
+                            format!(
+                                "`{p}` is already a column of this family; give each axis once"
+                            ),
+                        ));
+                    }
+                    if !matches!(case.kind, crate::case::CaseKind::Dimensionless) {
+                        return Err(src.error(&pv.span, &pv.key, "path axes take dimensionless values and need a dimensionless base case"));
+                    }
+                    axes.push(Axis::Path {
+                        name: p,
+                        field,
+                        values,
+                    });
+                }
+            }
             _ => {}
         }
     }
@@ -307,7 +355,11 @@ fn range(src: &Source<'_>, loc: &TabLoc<'_>) -> Result<Vec<f64>, CaseError> {
             if i + 1 == n && n > 1 {
                 to.value
             } else if log {
-                (from.value.ln() + s * (to.value.ln() - from.value.ln())).exp()
+                // Twelve significant digits: 0.01 rather than 0.010000000000000004.
+                let x = (from.value.ln() + s * (to.value.ln() - from.value.ln())).exp();
+                format!("{x:.11e}")
+                    .parse()
+                    .expect("a formatted float parses")
             } else {
                 from.value + s * (to.value - from.value)
             }
