@@ -66,8 +66,6 @@ enum Command {
 
 /// Grids above this many cases need `--yes`.
 const SWEEP_CONFIRM: usize = 200_000;
-/// Cases solved and written per chunk (bounded memory, ordered output).
-const SWEEP_CHUNK: usize = 2048;
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
@@ -213,7 +211,6 @@ fn sweep_cmd(
 ) -> Result<ExitCode> {
     use indicatif::{ProgressBar, ProgressStyle};
     use ltb_atlas::sweep::{self, spec::parse_spec};
-    use rayon::prelude::*;
     use sha2::{Digest, Sha256};
     use std::io::IsTerminal;
 
@@ -238,18 +235,6 @@ fn sweep_cmd(
             total as f64 / 1e4
         );
     }
-    std::fs::create_dir_all(out).with_context(|| {
-        format!(
-            "cannot create the output folder {} (check the path and permissions)",
-            out.display()
-        )
-    })?;
-    // A manifest from an earlier run no longer describes the folder.
-    let manifest_path = out.join("manifest.json");
-    if manifest_path.exists() {
-        std::fs::remove_file(&manifest_path)
-            .with_context(|| format!("cannot replace {}", manifest_path.display()))?;
-    }
     let mut pool = rayon::ThreadPoolBuilder::new();
     if let Some(j) = jobs {
         anyhow::ensure!(j >= 1, "--jobs must be at least 1");
@@ -273,84 +258,16 @@ fn sweep_cmd(
     } else {
         ProgressBar::hidden()
     };
-    let mut files = Vec::new();
-    let mut fam_json = Vec::new();
-    let mut failed_total = 0usize;
-    for f in &spec.families {
-        let name = format!("{}.csv", f.name);
-        let mut tmp = tempfile::NamedTempFile::new_in(out)
-            .with_context(|| format!("cannot write in {}", out.display()))?;
-        let mut failed = 0usize;
-        let mut cells: Vec<sweep::Cell> = Vec::with_capacity(f.size());
-        {
-            let mut buf = std::io::BufWriter::new(tmp.as_file_mut());
-            sweep::preamble(&mut buf, f, &hash, tol)?;
-            let mut w = csv::WriterBuilder::new().from_writer(&mut buf as &mut dyn Write);
-            w.write_record(sweep::header(f))?;
-            let n = f.size();
-            let mut start = 0;
-            while start < n {
-                let end = (start + SWEEP_CHUNK).min(n);
-                let rows: Vec<sweep::Row> = pool.install(|| {
-                    (start..end)
-                        .into_par_iter()
-                        .map(|i| {
-                            let r = sweep::solve_point(f.point(i), &settings);
-                            bar.inc(1);
-                            r
-                        })
-                        .collect()
-                });
-                for r in &rows {
-                    if r.status != "ok" {
-                        failed += 1;
-                    }
-                    cells.push(sweep::Cell::from(r));
-                    sweep::write_row(&mut w, f, r)?;
-                }
-                start = end;
-            }
-            w.flush()?;
-            drop(w);
-            buf.flush()?;
-        }
-        tmp.persist(out.join(&name))
-            .with_context(|| format!("cannot write {}", out.join(&name).display()))?;
-        failed_total += failed;
-        let mut tables = Vec::new();
-        for (tname, bytes) in sweep::print_tables(f, &cells, &hash) {
-            write_atomic(&out.join(&tname), &bytes)?;
-            tables.push(tname);
-        }
-        fam_json.push(serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name, "print_tables": tables}));
-        files.push(name.clone());
-        files.extend(tables);
+    let progress = |n: u64| bar.inc(n);
+    let mut log = |line: String| {
         if !quiet && !show_bar {
-            eprintln!(
-                "family {}: {} cases, {} not ok -> {}",
-                f.name,
-                f.size(),
-                failed,
-                name
-            );
+            eprintln!("{line}");
         }
-    }
+    };
+    let summary = sweep::run::run(&spec, &hash, out, &pool, &settings, &progress, &mut log)
+        .map_err(|e| anyhow::anyhow!("{e} (check the --out folder and its permissions)"))?;
     bar.finish_and_clear();
-    files.sort();
-    let manifest = serde_json::json!({
-        "tool": "ltb-atlas",
-        "version": env!("CARGO_PKG_VERSION"),
-        "spec_sha256": hash,
-        "solver_tolerance": tol,
-        "cases": total,
-        "failed": failed_total,
-        "families": fam_json,
-        "files": files,
-        "caution": ltb_atlas::CAUTION,
-    });
-    let mut bytes = serde_json::to_vec_pretty(&manifest)?;
-    bytes.push(b'\n');
-    write_atomic(&manifest_path, &bytes)?;
+    let failed_total = summary.failed;
     if !quiet {
         eprintln!(
             "{total} cases in {} families, {failed_total} not ok; tables and manifest in {}",

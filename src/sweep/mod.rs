@@ -10,6 +10,7 @@
 //! byte-identical whatever the thread count, and memory stays bounded.
 
 pub mod path;
+pub mod run;
 pub mod spec;
 mod variant;
 
