@@ -1,0 +1,78 @@
+//! Sweep benchmark: a κ × ζ × four end-condition variants family solved
+//! through the library's run loop (ordered chunks, CSV and print tables,
+//! manifest) with 1 and 2 threads; prints cases per second, the speed-up and
+//! the peak resident memory (VmHWM) of the process. Run with
+//! `cargo bench --bench sweep`; `LTB_SWEEP_CASES` sets the size (default
+//! 100 000). Under `cargo test` it returns at once.
+
+use ltb_atlas::solve::Settings;
+use ltb_atlas::sweep::{run, spec::parse_spec};
+use std::time::Instant;
+
+fn spec(cases: usize) -> String {
+    // 4 variants × nz ζ values × nk κ values ≈ cases.
+    let nz = 25;
+    let nk = (cases / (4 * nz)).max(1);
+    format!(
+        r#"[[family]]
+name = "bench"
+kappa = {{ from = 0.05, to = 5.0, count = {nk}, spacing = "log" }}
+zeta = {{ from = -1.0, to = 1.0, count = {nz} }}
+[family.case]
+[family.case.start]
+preset = "built-in"
+[family.case.end]
+preset = "free"
+[[family.case.load]]
+kind = "point"
+at = 1.0
+[[family.variant]]
+name = "root-warping-fixed"
+[[family.variant]]
+name = "root-warping-free"
+[family.variant.start]
+warping = "free"
+[[family.variant]]
+name = "tip-top-flange"
+[[family.variant.restraint]]
+at = 1.0
+lateral = "fixed"
+zeta = "kappa"
+[[family.variant]]
+name = "tip-bottom-flange"
+[[family.variant.restraint]]
+at = 1.0
+lateral = "fixed"
+zeta = "-kappa"
+"#
+    )
+}
+
+fn peak_rss_mb() -> f64 {
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| s.lines().find(|l| l.starts_with("VmHWM")).and_then(|l| l.split_whitespace().nth(1)?.parse::<f64>().ok()))
+        .map(|kb| kb / 1024.0)
+        .unwrap_or(f64::NAN)
+}
+
+fn main() {
+    if !std::env::args().any(|a| a == "--bench") {
+        return;
+    }
+    let n: usize = std::env::var("LTB_SWEEP_CASES").ok().and_then(|v| v.parse().ok()).unwrap_or(100_000);
+    let text = spec(n);
+    let spec = parse_spec(&text, "bench.toml", std::path::Path::new(".")).expect("bench spec parses");
+    let cases: usize = spec.families.iter().map(|f| f.size()).sum();
+    let mut rates = Vec::new();
+    for threads in [1, 2] {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().expect("pool");
+        let t = Instant::now();
+        let s = run::run(&spec, "bench", dir.path(), &pool, &Settings::default(), &|_| {}, &mut |_| {}).expect("run");
+        let dt = t.elapsed().as_secs_f64();
+        rates.push(cases as f64 / dt);
+        println!("{cases} cases, {threads} thread(s): {:.0} cases/s ({dt:.1} s, {} not ok)", cases as f64 / dt, s.failed);
+    }
+    println!("speed-up on 2 threads: {:.2}×; peak resident memory {:.0} MB", rates[1] / rates[0], peak_rss_mb());
+}
