@@ -51,7 +51,11 @@ zeta = "-kappa"
 fn peak_rss_mb() -> f64 {
     std::fs::read_to_string("/proc/self/status")
         .ok()
-        .and_then(|s| s.lines().find(|l| l.starts_with("VmHWM")).and_then(|l| l.split_whitespace().nth(1)?.parse::<f64>().ok()))
+        .and_then(|s| {
+            s.lines()
+                .find(|l| l.starts_with("VmHWM"))
+                .and_then(|l| l.split_whitespace().nth(1)?.parse::<f64>().ok())
+        })
         .map(|kb| kb / 1024.0)
         .unwrap_or(f64::NAN)
 }
@@ -60,19 +64,45 @@ fn main() {
     if !std::env::args().any(|a| a == "--bench") {
         return;
     }
-    let n: usize = std::env::var("LTB_SWEEP_CASES").ok().and_then(|v| v.parse().ok()).unwrap_or(100_000);
+    let n: usize = std::env::var("LTB_SWEEP_CASES")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(100_000);
     let text = spec(n);
-    let spec = parse_spec(&text, "bench.toml", std::path::Path::new(".")).expect("bench spec parses");
+    let spec =
+        parse_spec(&text, "bench.toml", std::path::Path::new(".")).expect("bench spec parses");
     let cases: usize = spec.families.iter().map(|f| f.size()).sum();
     let mut rates = Vec::new();
     for threads in [1, 2] {
         let dir = tempfile::tempdir().expect("temp dir");
-        let pool = rayon::ThreadPoolBuilder::new().num_threads(threads).build().expect("pool");
+        let pool = rayon::ThreadPoolBuilder::new()
+            .num_threads(threads)
+            .build()
+            .expect("pool");
         let t = Instant::now();
-        let s = run::run(&spec, "bench", dir.path(), &pool, &Settings::default(), &|_| {}, &mut |_| {}).expect("run");
+        let mut cache = ltb_atlas::sweep::cache::Cache::disabled();
+        let s = run::run(
+            &spec,
+            "bench",
+            dir.path(),
+            &pool,
+            &Settings::default(),
+            &mut cache,
+            &|_| {},
+            &mut |_| {},
+        )
+        .expect("run");
         let dt = t.elapsed().as_secs_f64();
         rates.push(cases as f64 / dt);
-        println!("{cases} cases, {threads} thread(s): {:.0} cases/s ({dt:.1} s, {} not ok)", cases as f64 / dt, s.failed);
+        println!(
+            "{cases} cases, {threads} thread(s): {:.0} cases/s ({dt:.1} s, {} not ok)",
+            cases as f64 / dt,
+            s.failed
+        );
     }
-    println!("speed-up on 2 threads: {:.2}×; peak resident memory {:.0} MB", rates[1] / rates[0], peak_rss_mb());
+    println!(
+        "speed-up on 2 threads: {:.2}×; peak resident memory {:.0} MB",
+        rates[1] / rates[0],
+        peak_rss_mb()
+    );
 }

@@ -61,6 +61,12 @@ enum Command {
         /// Run grids larger than the size threshold without asking.
         #[arg(long)]
         yes: bool,
+        /// Result cache folder (default: $LTB_ATLAS_CACHE, $XDG_CACHE_HOME/ltb-atlas or ~/.cache/ltb-atlas).
+        #[arg(long, value_name = "DIR")]
+        cache: Option<PathBuf>,
+        /// Solve every case afresh, neither reading nor writing the cache.
+        #[arg(long, conflicts_with = "cache")]
+        no_cache: bool,
     },
 }
 
@@ -94,7 +100,9 @@ fn run(cli: Cli) -> Result<ExitCode> {
             tolerance,
             quiet,
             yes,
-        } => sweep_cmd(&spec, &out, jobs, tolerance, quiet, yes),
+            cache,
+            no_cache,
+        } => sweep_cmd(&spec, &out, jobs, tolerance, quiet, yes, cache, no_cache),
     }
 }
 
@@ -201,6 +209,7 @@ fn solve_cmd(
     })
 }
 
+#[allow(clippy::too_many_arguments)]
 fn sweep_cmd(
     spec_path: &Path,
     out: &Path,
@@ -208,6 +217,8 @@ fn sweep_cmd(
     tolerance: Option<f64>,
     quiet: bool,
     yes: bool,
+    cache_dir: Option<PathBuf>,
+    no_cache: bool,
 ) -> Result<ExitCode> {
     use indicatif::{ProgressBar, ProgressStyle};
     use ltb_atlas::sweep::{self, spec::parse_spec};
@@ -264,8 +275,38 @@ fn sweep_cmd(
             eprintln!("{line}");
         }
     };
-    let summary = sweep::run::run(&spec, &hash, out, &pool, &settings, &progress, &mut log)
-        .map_err(|e| anyhow::anyhow!("{e} (check the --out folder and its permissions)"))?;
+    let mut cache = if no_cache {
+        sweep::cache::Cache::disabled()
+    } else {
+        let dir = cache_dir.unwrap_or_else(sweep::cache::default_dir);
+        sweep::cache::Cache::open(&dir).with_context(|| {
+            format!(
+                "cannot open the result cache {} (use --cache DIR or --no-cache)",
+                dir.display()
+            )
+        })?
+    };
+    if cache.corrupted > 0 && !quiet {
+        eprintln!(
+            "warning: {} damaged cache records ignored (their cases are solved again)",
+            cache.corrupted
+        );
+    }
+    let summary = sweep::run::run(
+        &spec, &hash, out, &pool, &settings, &mut cache, &progress, &mut log,
+    )
+    .map_err(|e| anyhow::anyhow!("{e} (check the --out folder and its permissions)"))?;
+    if summary.discarded && !quiet {
+        eprintln!(
+            "warning: a cached result differed from a fresh solve; the cache was discarded and rebuilt"
+        );
+    }
+    if !quiet && summary.hits > 0 {
+        eprintln!(
+            "{} of {} cases from the cache ({} checked by solving again)",
+            summary.hits, summary.cases, summary.checked
+        );
+    }
     bar.finish_and_clear();
     let failed_total = summary.failed;
     if !quiet {

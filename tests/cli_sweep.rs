@@ -52,7 +52,12 @@ fn sweep(dir: &Path, spec: &str, out: &str, extra: &[&str]) -> Output {
     let p = dir.join("spec.toml");
     std::fs::write(&p, spec).unwrap();
     let o = dir.join(out);
+    let cache = dir.join("cache");
     let mut args = vec!["sweep", p.to_str().unwrap(), "--out", o.to_str().unwrap()];
+    // Hermetic: a cache of the test's own unless the test chooses.
+    if !extra.iter().any(|a| *a == "--cache" || *a == "--no-cache") {
+        args.extend_from_slice(&["--cache", cache.to_str().unwrap()]);
+    }
     args.extend_from_slice(extra);
     run(&args)
 }
@@ -462,4 +467,71 @@ end = 1.0
         err.contains("spec.toml:5:") && err.contains("bracee") && err.contains("brace"),
         "{err}"
     );
+}
+
+#[test]
+fn the_cache_reproduces_bytes_detects_damage_and_checks_hits() {
+    use ltb_atlas::sweep::cache::{Entry, RECORDS, parse_record, record};
+    let dir = tempfile::tempdir().unwrap();
+    let fresh = sweep(dir.path(), SPEC, "fresh", &["--no-cache", "--quiet"]);
+    assert!(fresh.status.success());
+    let first = sweep(dir.path(), SPEC, "first", &[]);
+    assert!(first.status.success());
+    let second = sweep(dir.path(), SPEC, "second", &[]);
+    assert!(
+        String::from_utf8_lossy(&second.stderr).contains("35 of 35 cases from the cache"),
+        "{}",
+        String::from_utf8_lossy(&second.stderr)
+    );
+    let files = [
+        "cantilever-tip-load.csv",
+        "simple-span-log.csv",
+        "cantilever-tip-load.up.table.csv",
+        "manifest.json",
+    ];
+    let same = |a: &str, b: &str| {
+        files.iter().all(|f| {
+            std::fs::read(dir.path().join(a).join(f)).unwrap()
+                == std::fs::read(dir.path().join(b).join(f)).unwrap()
+        })
+    };
+    assert!(same("fresh", "first") && same("fresh", "second"));
+    // A damaged record is detected, ignored and its case solved again.
+    let store = dir.path().join("cache").join(RECORDS);
+    let text = std::fs::read_to_string(&store).unwrap();
+    let mut lines: Vec<String> = text.lines().map(String::from).collect();
+    let flip = if &lines[3][80..81] == "0" { "1" } else { "0" };
+    lines[3].replace_range(80..81, flip);
+    std::fs::write(&store, lines.join("\n") + "\n").unwrap();
+    let third = sweep(dir.path(), SPEC, "third", &[]);
+    assert!(
+        String::from_utf8_lossy(&third.stderr).contains("1 damaged cache records"),
+        "{}",
+        String::from_utf8_lossy(&third.stderr)
+    );
+    assert!(same("fresh", "third"));
+    // A forged record (valid checksum, wrong value) is caught by the check
+    // solves of the first hits, and the whole cache is discarded.
+    let text = std::fs::read_to_string(&store).unwrap();
+    let forged: Vec<String> = text
+        .lines()
+        .map(|l| match parse_record(l) {
+            Some((k, e)) => record(
+                &k,
+                &Entry {
+                    mu_cr: e.mu_cr.map(|m| m * 1.5),
+                    ..e
+                },
+            ),
+            None => l.to_string(),
+        })
+        .collect();
+    std::fs::write(&store, forged.join("\n") + "\n").unwrap();
+    let fourth = sweep(dir.path(), SPEC, "fourth", &[]);
+    assert!(
+        String::from_utf8_lossy(&fourth.stderr).contains("discarded"),
+        "{}",
+        String::from_utf8_lossy(&fourth.stderr)
+    );
+    assert!(same("fresh", "fourth"));
 }

@@ -9,6 +9,7 @@
 //! solved in chunks on a rayon pool and written in order, so the output is
 //! byte-identical whatever the thread count, and memory stays bounded.
 
+pub mod cache;
 pub mod path;
 pub mod run;
 pub mod spec;

@@ -2,6 +2,7 @@
 //! pool and written in order, print tables, and the manifest last. Files go
 //! through temporary files in the target folder and a rename.
 
+use super::cache::{Cache, Entry, key};
 use super::spec::Spec;
 use super::{Cell, Row, header, preamble, print_tables, solve_point, write_row};
 use crate::solve::Settings;
@@ -26,25 +27,40 @@ pub enum SweepError {
 }
 
 fn io(path: &Path) -> impl FnOnce(std::io::Error) -> SweepError + '_ {
-    move |source| SweepError::Io { path: path.to_path_buf(), source }
+    move |source| SweepError::Io {
+        path: path.to_path_buf(),
+        source,
+    }
 }
 
 /// What a run wrote.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Summary {
-    /// Cases solved.
+    /// Cases in the grids.
     pub cases: usize,
     /// Cases whose status is not "ok".
     pub failed: usize,
     /// Files written (sorted), the manifest excluded.
     pub files: Vec<String>,
+    /// Cases taken from the cache.
+    pub hits: usize,
+    /// Cache hits solved again as a check.
+    pub checked: usize,
+    /// True when a checked hit differed and the cache was discarded.
+    pub discarded: bool,
 }
+
+/// Cache hits re-solved per family as a check (the first ones found).
+pub const CHECKS: usize = 4;
 
 fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), SweepError> {
     let dir = path.parent().unwrap_or(Path::new("."));
     let mut tmp = tempfile::NamedTempFile::new_in(dir).map_err(io(dir))?;
     tmp.write_all(bytes).map_err(io(path))?;
-    tmp.persist(path).map_err(|e| SweepError::Io { path: path.to_path_buf(), source: e.error })?;
+    tmp.persist(path).map_err(|e| SweepError::Io {
+        path: path.to_path_buf(),
+        source: e.error,
+    })?;
     Ok(())
 }
 
@@ -57,10 +73,36 @@ pub fn run(
     out: &Path,
     pool: &rayon::ThreadPool,
     settings: &Settings,
+    cache: &mut Cache,
     progress: &(dyn Fn(u64) + Sync),
     log: &mut dyn FnMut(String),
 ) -> Result<Summary, SweepError> {
     std::fs::create_dir_all(out).map_err(io(out))?;
+    // Check the cache first: re-solve the first few hits of every family;
+    // any difference discards the whole cache.
+    let (mut checked, mut discarded) = (0, false);
+    if !cache.is_empty() {
+        'families: for f in &spec.families {
+            let mut found = 0;
+            for i in 0..f.size().min(64 * CHUNK) {
+                let p = f.point(i);
+                let k = key(&p.member, settings);
+                if let Some(e) = cache.get(&k).cloned() {
+                    checked += 1;
+                    found += 1;
+                    if Entry::of(&solve_point(p, settings)) != e {
+                        cache.discard().map_err(io(out))?;
+                        discarded = true;
+                        break 'families;
+                    }
+                    if found == CHECKS {
+                        break;
+                    }
+                }
+            }
+        }
+    }
+    let mut hits = 0usize;
     // A manifest from an earlier run no longer describes the folder.
     let manifest_path = out.join("manifest.json");
     if manifest_path.exists() {
@@ -80,22 +122,38 @@ pub fn run(
             let mut buf = std::io::BufWriter::new(tmp.as_file_mut());
             preamble(&mut buf, f, spec_hash, settings.tolerance).map_err(io(&target))?;
             let mut w = csv::WriterBuilder::new().from_writer(&mut buf as &mut dyn Write);
-            let csv_err = |e: csv::Error| SweepError::Io { path: target.clone(), source: std::io::Error::other(e) };
+            let csv_err = |e: csv::Error| SweepError::Io {
+                path: target.clone(),
+                source: std::io::Error::other(e),
+            };
             w.write_record(header(f)).map_err(csv_err)?;
             let n = f.size();
             let mut start = 0;
             while start < n {
                 let end = (start + CHUNK).min(n);
-                let rows: Vec<Row> = pool.install(|| {
+                let shared: &Cache = cache;
+                let solved: Vec<(Row, Option<[u8; 32]>)> = pool.install(|| {
                     (start..end)
                         .into_par_iter()
                         .map(|i| {
-                            let r = solve_point(f.point(i), settings);
+                            let p = f.point(i);
+                            let k = key(&p.member, settings);
+                            let out = match shared.get(&k) {
+                                Some(e) => (e.row(p), None),
+                                None => (solve_point(p, settings), Some(k)),
+                            };
                             progress(1);
-                            r
+                            out
                         })
                         .collect()
                 });
+                let fresh: Vec<([u8; 32], Entry)> = solved
+                    .iter()
+                    .filter_map(|(r, k)| k.map(|k| (k, Entry::of(r))))
+                    .collect();
+                hits += solved.len() - fresh.len();
+                cache.append(&fresh).map_err(io(out))?;
+                let rows: Vec<Row> = solved.into_iter().map(|(r, _)| r).collect();
                 for r in &rows {
                     if r.status != "ok" {
                         failed += 1;
@@ -109,7 +167,10 @@ pub fn run(
             drop(w);
             buf.flush().map_err(io(&target))?;
         }
-        tmp.persist(&target).map_err(|e| SweepError::Io { path: target.clone(), source: e.error })?;
+        tmp.persist(&target).map_err(|e| SweepError::Io {
+            path: target.clone(),
+            source: e.error,
+        })?;
         failed_total += failed;
         total += f.size();
         let mut tables = Vec::new();
@@ -118,7 +179,13 @@ pub fn run(
             tables.push(tname);
         }
         fam_json.push(serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name, "print_tables": tables}));
-        log(format!("family {}: {} cases, {} not ok -> {}", f.name, f.size(), failed, name));
+        log(format!(
+            "family {}: {} cases, {} not ok -> {}",
+            f.name,
+            f.size(),
+            failed,
+            name
+        ));
         files.push(name);
         files.extend(tables);
     }
@@ -137,5 +204,12 @@ pub fn run(
     let mut bytes = serde_json::to_vec_pretty(&manifest).expect("a JSON value serialises");
     bytes.push(b'\n');
     write_atomic(&manifest_path, &bytes)?;
-    Ok(Summary { cases: total, failed: failed_total, files })
+    Ok(Summary {
+        cases: total,
+        failed: failed_total,
+        files,
+        hits,
+        checked,
+        discarded,
+    })
 }
