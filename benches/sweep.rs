@@ -81,17 +81,14 @@ fn main() {
             .expect("pool");
         let t = Instant::now();
         let mut cache = ltb_atlas::sweep::cache::Cache::disabled();
-        let s = run::run(
-            &spec,
-            "bench",
-            dir.path(),
-            &pool,
-            &Settings::default(),
-            &mut cache,
-            &|_| {},
-            &mut |_| {},
-        )
-        .expect("run");
+        let cx = run::Context {
+            pool: &pool,
+            settings: &Settings::default(),
+            cache: &mut cache,
+            progress: &|_| {},
+            log: &mut |_| {},
+        };
+        let s = run::run(&spec, "bench", dir.path(), None, cx).expect("run");
         let dt = t.elapsed().as_secs_f64();
         rates.push(cases as f64 / dt);
         println!(

@@ -67,6 +67,17 @@ enum Command {
         /// Solve every case afresh, neither reading nor writing the cache.
         #[arg(long, conflicts_with = "cache")]
         no_cache: bool,
+        /// Solve only slice K of N of every family (K in 1..=N); combine with `merge`.
+        #[arg(long, value_name = "K/N")]
+        shard: Option<String>,
+    },
+    /// Combine the shards of a sharded sweep into the files an unsharded run writes.
+    Merge {
+        /// The sweep spec the shards were run from.
+        spec: PathBuf,
+        /// The folder holding the shards (and receiving the merged files).
+        #[arg(long)]
+        out: PathBuf,
     },
 }
 
@@ -102,7 +113,11 @@ fn run(cli: Cli) -> Result<ExitCode> {
             yes,
             cache,
             no_cache,
-        } => sweep_cmd(&spec, &out, jobs, tolerance, quiet, yes, cache, no_cache),
+            shard,
+        } => sweep_cmd(
+            &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
+        ),
+        Command::Merge { spec, out } => merge_cmd(&spec, &out),
     }
 }
 
@@ -219,7 +234,25 @@ fn sweep_cmd(
     yes: bool,
     cache_dir: Option<PathBuf>,
     no_cache: bool,
+    shard: Option<String>,
 ) -> Result<ExitCode> {
+    let shard = match shard {
+        None => None,
+        Some(t) => {
+            let parsed = t.split_once('/').and_then(|(k, n)| {
+                Some((
+                    k.trim().parse::<usize>().ok()?,
+                    n.trim().parse::<usize>().ok()?,
+                ))
+            });
+            match parsed {
+                Some((k, n)) if n >= 1 && (1..=n).contains(&k) => Some(sweep::run::Shard { k, n }),
+                _ => {
+                    anyhow::bail!("--shard {t}: write K/N with 1 ≤ K ≤ N, for example --shard 2/8")
+                }
+            }
+        }
+    };
     use indicatif::{ProgressBar, ProgressStyle};
     use ltb_atlas::sweep::{self, spec::parse_spec};
     use sha2::{Digest, Sha256};
@@ -292,10 +325,15 @@ fn sweep_cmd(
             cache.corrupted
         );
     }
-    let summary = sweep::run::run(
-        &spec, &hash, out, &pool, &settings, &mut cache, &progress, &mut log,
-    )
-    .map_err(|e| anyhow::anyhow!("{e} (check the --out folder and its permissions)"))?;
+    let cx = sweep::run::Context {
+        pool: &pool,
+        settings: &settings,
+        cache: &mut cache,
+        progress: &progress,
+        log: &mut log,
+    };
+    let summary = sweep::run::run(&spec, &hash, out, shard, cx)
+        .map_err(|e| anyhow::anyhow!("{e} (check the --out folder and its permissions)"))?;
     if summary.discarded && !quiet {
         eprintln!(
             "warning: a cached result differed from a fresh solve; the cache was discarded and rebuilt"
@@ -317,6 +355,33 @@ fn sweep_cmd(
         );
     }
     Ok(if failed_total > 0 {
+        ExitCode::from(1)
+    } else {
+        ExitCode::SUCCESS
+    })
+}
+
+fn merge_cmd(spec_path: &Path, out: &Path) -> Result<ExitCode> {
+    use ltb_atlas::sweep::spec::parse_spec;
+    use sha2::{Digest, Sha256};
+    let text = std::fs::read_to_string(spec_path)
+        .with_context(|| format!("cannot read the spec {}", spec_path.display()))?;
+    let hash: String = Sha256::digest(text.as_bytes())
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect();
+    let dir = spec_path.parent().unwrap_or(Path::new("."));
+    let spec =
+        parse_spec(&text, &spec_path.display().to_string(), dir).map_err(anyhow::Error::new)?;
+    let s = ltb_atlas::sweep::run::merge(&spec, &hash, out)
+        .map_err(|e| anyhow::anyhow!("{}: {e}", out.display()))?;
+    eprintln!(
+        "merged {} cases ({} not ok) into {}",
+        s.cases,
+        s.failed,
+        out.display()
+    );
+    Ok(if s.failed > 0 {
         ExitCode::from(1)
     } else {
         ExitCode::SUCCESS

@@ -535,3 +535,91 @@ fn the_cache_reproduces_bytes_detects_damage_and_checks_hits() {
     );
     assert!(same("fresh", "fourth"));
 }
+
+#[test]
+fn shards_merge_into_the_unsharded_files_and_bad_sets_are_refused() {
+    let dir = tempfile::tempdir().unwrap();
+    assert!(
+        sweep(dir.path(), SPEC, "full", &["--quiet", "--no-cache"])
+            .status
+            .success()
+    );
+    for k in 1..=3 {
+        let s = format!("{k}/3");
+        assert!(
+            sweep(
+                dir.path(),
+                SPEC,
+                "sharded",
+                &["--quiet", "--no-cache", "--shard", &s]
+            )
+            .status
+            .success()
+        );
+    }
+    let spec = dir.path().join("spec.toml");
+    let merge = |out: &str| {
+        run(&[
+            "merge",
+            spec.to_str().unwrap(),
+            "--out",
+            dir.path().join(out).to_str().unwrap(),
+        ])
+    };
+    let m = merge("sharded");
+    assert!(m.status.success(), "{}", String::from_utf8_lossy(&m.stderr));
+    let list = |d: &str| {
+        let mut v: Vec<String> = std::fs::read_dir(dir.path().join(d))
+            .unwrap()
+            .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+            .collect();
+        v.sort();
+        v
+    };
+    assert_eq!(list("full"), list("sharded"));
+    for f in list("full") {
+        assert!(
+            std::fs::read(dir.path().join("full").join(&f)).unwrap()
+                == std::fs::read(dir.path().join("sharded").join(&f)).unwrap(),
+            "{f} differs"
+        );
+    }
+    // A missing shard is refused.
+    for k in [1, 3] {
+        let s = format!("{k}/3");
+        assert!(
+            sweep(
+                dir.path(),
+                SPEC,
+                "gap",
+                &["--quiet", "--no-cache", "--shard", &s]
+            )
+            .status
+            .success()
+        );
+    }
+    let m = merge("gap");
+    assert_eq!(m.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&m.stderr).contains("shards 2 of 3 are missing"));
+    // A shard of another count (foreign) is refused.
+    assert!(
+        sweep(
+            dir.path(),
+            SPEC,
+            "gap",
+            &["--quiet", "--no-cache", "--shard", "2/4"]
+        )
+        .status
+        .success()
+    );
+    let m = merge("gap");
+    assert_eq!(m.status.code(), Some(2));
+    assert!(
+        String::from_utf8_lossy(&m.stderr).contains("another shard count"),
+        "{}",
+        String::from_utf8_lossy(&m.stderr)
+    );
+    // A bad --shard value is refused.
+    let bad = sweep(dir.path(), SPEC, "x", &["--quiet", "--shard", "4/3"]);
+    assert_eq!(bad.status.code(), Some(2));
+}

@@ -24,6 +24,43 @@ pub enum SweepError {
         /// The cause.
         source: std::io::Error,
     },
+    /// Shards cannot be merged.
+    #[error("{0}")]
+    Merge(String),
+}
+
+/// A slice of every family's grid: shard `k` of `n` (1-based), the
+/// contiguous rows ⌊(k−1)·size/n⌋ .. ⌊k·size/n⌋.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Shard {
+    /// This shard, 1..=n.
+    pub k: usize,
+    /// Number of shards.
+    pub n: usize,
+}
+
+impl Shard {
+    /// Rows of a family of `size` cases in this shard.
+    pub fn range(&self, size: usize) -> std::ops::Range<usize> {
+        ((self.k - 1) * size / self.n)..(self.k * size / self.n)
+    }
+    fn suffix(&self) -> String {
+        format!("shard-{}-of-{}", self.k, self.n)
+    }
+}
+
+/// Everything a run needs besides the spec.
+pub struct Context<'a> {
+    /// Worker pool.
+    pub pool: &'a rayon::ThreadPool,
+    /// Solver settings for every case.
+    pub settings: &'a Settings,
+    /// The result cache (possibly disabled).
+    pub cache: &'a mut Cache,
+    /// Called with the number of cases just finished (from any thread).
+    pub progress: &'a (dyn Fn(u64) + Sync),
+    /// Receives one plain line per family.
+    pub log: &'a mut dyn FnMut(String),
 }
 
 fn io(path: &Path) -> impl FnOnce(std::io::Error) -> SweepError + '_ {
@@ -64,19 +101,24 @@ fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), SweepError> {
     Ok(())
 }
 
-/// Solve and write every family of `spec` into `out` (created if needed).
-/// `progress` is called with the number of cases just finished (from any
-/// worker thread); `log` receives one plain line per family.
+/// Solve and write every family of `spec` into `out` (created if needed):
+/// `<name>.csv`, print tables and `manifest.json` last; or, for a shard,
+/// `<name>.shard-K-of-N.csv` and `manifest.shard-K-of-N.json` only, to be
+/// combined by [`merge`].
 pub fn run(
     spec: &Spec,
     spec_hash: &str,
     out: &Path,
-    pool: &rayon::ThreadPool,
-    settings: &Settings,
-    cache: &mut Cache,
-    progress: &(dyn Fn(u64) + Sync),
-    log: &mut dyn FnMut(String),
+    shard: Option<Shard>,
+    cx: Context<'_>,
 ) -> Result<Summary, SweepError> {
+    let Context {
+        pool,
+        settings,
+        cache,
+        progress,
+        log,
+    } = cx;
     std::fs::create_dir_all(out).map_err(io(out))?;
     // Check the cache first: re-solve the first few hits of every family;
     // any difference discards the whole cache.
@@ -84,7 +126,8 @@ pub fn run(
     if !cache.is_empty() {
         'families: for f in &spec.families {
             let mut found = 0;
-            for i in 0..f.size().min(64 * CHUNK) {
+            let range = shard.map_or(0..f.size(), |s| s.range(f.size()));
+            for i in range.take(64 * CHUNK) {
                 let p = f.point(i);
                 let k = key(&p.member, settings);
                 if let Some(e) = cache.get(&k).cloned() {
@@ -104,7 +147,11 @@ pub fn run(
     }
     let mut hits = 0usize;
     // A manifest from an earlier run no longer describes the folder.
-    let manifest_path = out.join("manifest.json");
+    let manifest_name = match shard {
+        Some(s) => format!("manifest.{}.json", s.suffix()),
+        None => "manifest.json".to_string(),
+    };
+    let manifest_path = out.join(&manifest_name);
     if manifest_path.exists() {
         std::fs::remove_file(&manifest_path).map_err(io(&manifest_path))?;
     }
@@ -113,11 +160,15 @@ pub fn run(
     let mut failed_total = 0usize;
     let mut total = 0usize;
     for f in &spec.families {
-        let name = format!("{}.csv", f.name);
+        let name = match shard {
+            Some(s) => format!("{}.{}.csv", f.name, s.suffix()),
+            None => format!("{}.csv", f.name),
+        };
         let target = out.join(&name);
+        let range = shard.map_or(0..f.size(), |s| s.range(f.size()));
         let mut tmp = tempfile::NamedTempFile::new_in(out).map_err(io(out))?;
         let mut failed = 0usize;
-        let mut cells: Vec<Cell> = Vec::with_capacity(f.size());
+        let mut cells: Vec<Cell> = Vec::with_capacity(range.len());
         {
             let mut buf = std::io::BufWriter::new(tmp.as_file_mut());
             preamble(&mut buf, f, spec_hash, settings.tolerance).map_err(io(&target))?;
@@ -127,10 +178,9 @@ pub fn run(
                 source: std::io::Error::other(e),
             };
             w.write_record(header(f)).map_err(csv_err)?;
-            let n = f.size();
-            let mut start = 0;
-            while start < n {
-                let end = (start + CHUNK).min(n);
+            let mut start = range.start;
+            while start < range.end {
+                let end = (start + CHUNK).min(range.end);
                 let shared: &Cache = cache;
                 let solved: Vec<(Row, Option<[u8; 32]>)> = pool.install(|| {
                     (start..end)
@@ -153,8 +203,7 @@ pub fn run(
                     .collect();
                 hits += solved.len() - fresh.len();
                 cache.append(&fresh).map_err(io(out))?;
-                let rows: Vec<Row> = solved.into_iter().map(|(r, _)| r).collect();
-                for r in &rows {
+                for (r, _) in &solved {
                     if r.status != "ok" {
                         failed += 1;
                     }
@@ -172,38 +221,45 @@ pub fn run(
             source: e.error,
         })?;
         failed_total += failed;
-        total += f.size();
-        let mut tables = Vec::new();
-        for (tname, bytes) in print_tables(f, &cells, spec_hash) {
-            write_atomic(&out.join(&tname), &bytes)?;
-            tables.push(tname);
-        }
-        fam_json.push(serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name, "print_tables": tables}));
+        total += range.len();
         log(format!(
             "family {}: {} cases, {} not ok -> {}",
             f.name,
-            f.size(),
+            range.len(),
             failed,
             name
         ));
-        files.push(name);
-        files.extend(tables);
+        if shard.is_some() {
+            fam_json.push(serde_json::json!({"name": f.name, "from": range.start, "to": range.end, "failed": failed, "file": name}));
+            files.push(name);
+        } else {
+            let (j, fs) = finish_family(out, f, &name, &cells, failed, spec_hash)?;
+            fam_json.push(j);
+            files.extend(fs);
+        }
     }
     files.sort();
-    let manifest = serde_json::json!({
-        "tool": "ltb-atlas",
-        "version": env!("CARGO_PKG_VERSION"),
-        "spec_sha256": spec_hash,
-        "solver_tolerance": settings.tolerance,
-        "cases": total,
-        "failed": failed_total,
-        "families": fam_json,
-        "files": files,
-        "caution": crate::CAUTION,
-    });
-    let mut bytes = serde_json::to_vec_pretty(&manifest).expect("a JSON value serialises");
-    bytes.push(b'\n');
-    write_atomic(&manifest_path, &bytes)?;
+    let manifest = match shard {
+        Some(s) => serde_json::json!({
+            "tool": "ltb-atlas",
+            "version": env!("CARGO_PKG_VERSION"),
+            "spec_sha256": spec_hash,
+            "solver_tolerance": settings.tolerance,
+            "shard": s.k,
+            "of": s.n,
+            "families": fam_json,
+            "files": files,
+        }),
+        None => manifest_json(
+            spec_hash,
+            settings.tolerance,
+            total,
+            failed_total,
+            fam_json,
+            &files,
+        ),
+    };
+    write_json(&manifest_path, &manifest)?;
     Ok(Summary {
         cases: total,
         failed: failed_total,
@@ -211,5 +267,227 @@ pub fn run(
         hits,
         checked,
         discarded,
+    })
+}
+
+fn write_json(path: &Path, v: &serde_json::Value) -> Result<(), SweepError> {
+    let mut bytes = serde_json::to_vec_pretty(v).expect("a JSON value serialises");
+    bytes.push(b'\n');
+    write_atomic(path, &bytes)
+}
+
+fn manifest_json(
+    hash: &str,
+    tol: f64,
+    total: usize,
+    failed: usize,
+    families: Vec<serde_json::Value>,
+    files: &[String],
+) -> serde_json::Value {
+    serde_json::json!({
+        "tool": "ltb-atlas",
+        "version": env!("CARGO_PKG_VERSION"),
+        "spec_sha256": hash,
+        "solver_tolerance": tol,
+        "cases": total,
+        "failed": failed,
+        "families": families,
+        "files": files,
+        "caution": crate::CAUTION,
+    })
+}
+
+/// Print tables of a finished family and its manifest entry.
+fn finish_family(
+    out: &Path,
+    f: &super::Family,
+    name: &str,
+    cells: &[Cell],
+    failed: usize,
+    hash: &str,
+) -> Result<(serde_json::Value, Vec<String>), SweepError> {
+    let mut tables = Vec::new();
+    for (tname, bytes) in print_tables(f, cells, hash) {
+        write_atomic(&out.join(&tname), &bytes)?;
+        tables.push(tname);
+    }
+    let j = serde_json::json!({"name": f.name, "cases": f.size(), "failed": failed, "file": name, "print_tables": tables});
+    let mut files = vec![name.to_string()];
+    files.extend(tables);
+    Ok((j, files))
+}
+
+/// Combine the shards 1..=N of `spec` found in `dir` into exactly the files
+/// an unsharded run writes, then remove the shard files. Refuses missing,
+/// duplicate or foreign shards (another spec, tolerance or shard count).
+pub fn merge(spec: &Spec, spec_hash: &str, dir: &Path) -> Result<Summary, SweepError> {
+    let mut manifests: Vec<serde_json::Value> = Vec::new();
+    let mut names: Vec<String> = std::fs::read_dir(dir)
+        .map_err(io(dir))?
+        .filter_map(|e| e.ok().map(|e| e.file_name().to_string_lossy().into_owned()))
+        .filter(|n| n.starts_with("manifest.shard-") && n.ends_with(".json"))
+        .collect();
+    names.sort();
+    if names.is_empty() {
+        return Err(SweepError::Merge(format!(
+            "no shard manifests (manifest.shard-K-of-N.json) in {}",
+            dir.display()
+        )));
+    }
+    for n in &names {
+        let text = std::fs::read_to_string(dir.join(n)).map_err(io(&dir.join(n)))?;
+        let v: serde_json::Value = serde_json::from_str(&text)
+            .map_err(|e| SweepError::Merge(format!("{n}: not a shard manifest ({e})")))?;
+        manifests.push(v);
+    }
+    let of = manifests[0]["of"].as_u64().unwrap_or(0) as usize;
+    let tol = manifests[0]["solver_tolerance"]
+        .as_f64()
+        .unwrap_or(f64::NAN);
+    let mut seen = vec![false; of + 1];
+    for (m, n) in manifests.iter().zip(&names) {
+        if m["spec_sha256"].as_str() != Some(spec_hash) {
+            return Err(SweepError::Merge(format!(
+                "{n} belongs to another spec (its spec hash differs); remove it or merge with its own spec"
+            )));
+        }
+        if m["of"].as_u64() != Some(of as u64) || m["solver_tolerance"].as_f64() != Some(tol) {
+            return Err(SweepError::Merge(format!(
+                "{n} comes from a run with another shard count or tolerance than {}",
+                names[0]
+            )));
+        }
+        let k = m["shard"].as_u64().unwrap_or(0) as usize;
+        if k == 0 || k > of {
+            return Err(SweepError::Merge(format!(
+                "{n}: shard number {k} is outside 1..={of}"
+            )));
+        }
+        if seen[k] {
+            return Err(SweepError::Merge(format!(
+                "shard {k} of {of} is present twice"
+            )));
+        }
+        seen[k] = true;
+    }
+    let missing: Vec<String> = (1..=of)
+        .filter(|&k| !seen[k])
+        .map(|k| k.to_string())
+        .collect();
+    if !missing.is_empty() {
+        return Err(SweepError::Merge(format!(
+            "shards {} of {of} are missing; run them (--shard K/{of}) before merging",
+            missing.join(", ")
+        )));
+    }
+    manifests.sort_by_key(|m| m["shard"].as_u64().unwrap_or(0));
+    let mut files = Vec::new();
+    let mut fam_json = Vec::new();
+    let (mut total, mut failed_total) = (0, 0);
+    let mut shard_files = Vec::new();
+    for f in &spec.families {
+        let name = format!("{}.csv", f.name);
+        let target = dir.join(&name);
+        let mut text = String::new();
+        let mut cells = Vec::with_capacity(f.size());
+        let mut failed = 0;
+        let mut next = 0usize;
+        for (si, m) in manifests.iter().enumerate() {
+            let e = m["families"]
+                .as_array()
+                .and_then(|a| {
+                    a.iter()
+                        .find(|e| e["name"].as_str() == Some(f.name.as_str()))
+                })
+                .ok_or_else(|| {
+                    SweepError::Merge(format!("shard {} has no family {}", si + 1, f.name))
+                })?;
+            let from = e["from"].as_u64().unwrap_or(u64::MAX) as usize;
+            let to = e["to"].as_u64().unwrap_or(0) as usize;
+            if from != next {
+                return Err(SweepError::Merge(format!(
+                    "family {}: shard {} starts at row {from}, expected {next}",
+                    f.name,
+                    si + 1
+                )));
+            }
+            next = to;
+            let file = e["file"].as_str().unwrap_or_default().to_string();
+            let body = std::fs::read_to_string(dir.join(&file)).map_err(io(&dir.join(&file)))?;
+            let mut lines = body.lines();
+            let mut head = String::new();
+            for l in lines.by_ref() {
+                head.push_str(l);
+                head.push('\n');
+                if !l.starts_with('#') {
+                    break; // the header line
+                }
+            }
+            if si == 0 {
+                text.push_str(&head);
+            }
+            let hdr: Vec<String> = header(f);
+            let col = |c: &str| hdr.iter().position(|h| h == c).expect("contract column");
+            let (mu, est, st) = (col("mu_cr"), col("error_estimate"), col("status"));
+            let mut rows = 0;
+            for l in lines {
+                text.push_str(l);
+                text.push('\n');
+                let mut rdr = csv::ReaderBuilder::new()
+                    .has_headers(false)
+                    .from_reader(l.as_bytes());
+                let rec = rdr
+                    .records()
+                    .next()
+                    .and_then(|r| r.ok())
+                    .ok_or_else(|| SweepError::Merge(format!("{file}: unreadable row")))?;
+                let ok = rec.get(st) == Some("ok");
+                if !ok {
+                    failed += 1;
+                }
+                cells.push(Cell {
+                    mu_cr: rec.get(mu).and_then(|x| x.parse().ok()),
+                    error_estimate: rec.get(est).and_then(|x| x.parse().ok()),
+                    ok,
+                });
+                rows += 1;
+            }
+            if rows != to - from {
+                return Err(SweepError::Merge(format!(
+                    "{file} holds {rows} rows, its manifest says {}",
+                    to - from
+                )));
+            }
+            shard_files.push(file);
+        }
+        if next != f.size() {
+            return Err(SweepError::Merge(format!(
+                "family {}: the shards cover {next} of {} rows",
+                f.name,
+                f.size()
+            )));
+        }
+        write_atomic(&target, text.as_bytes())?;
+        total += f.size();
+        failed_total += failed;
+        let (j, fs) = finish_family(dir, f, &name, &cells, failed, spec_hash)?;
+        fam_json.push(j);
+        files.extend(fs);
+    }
+    files.sort();
+    write_json(
+        &dir.join("manifest.json"),
+        &manifest_json(spec_hash, tol, total, failed_total, fam_json, &files),
+    )?;
+    for f in shard_files.iter().chain(names.iter()) {
+        std::fs::remove_file(dir.join(f)).map_err(io(&dir.join(f)))?;
+    }
+    Ok(Summary {
+        cases: total,
+        failed: failed_total,
+        files,
+        hits: 0,
+        checked: 0,
+        discarded: false,
     })
 }
