@@ -255,23 +255,23 @@ fn sweep_cmd(
     };
     use indicatif::{ProgressBar, ProgressStyle};
     use ltb_atlas::sweep::{self, spec::parse_spec};
-    use sha2::{Digest, Sha256};
     use std::io::IsTerminal;
 
     let text = std::fs::read_to_string(spec_path)
         .with_context(|| format!("cannot read the spec {}", spec_path.display()))?;
-    let hash: String = Sha256::digest(text.as_bytes())
-        .iter()
-        .map(|b| format!("{b:02x}"))
-        .collect();
     let dir = spec_path.parent().unwrap_or(Path::new("."));
     let spec =
         parse_spec(&text, &spec_path.display().to_string(), dir).map_err(anyhow::Error::new)?;
+    let hash = sweep::run::spec_hash(&text, &spec);
     let tol = tolerance.unwrap_or(1e-4);
     if !(tol > 0.0 && tol < 0.1) {
         anyhow::bail!("--tolerance must lie between 0 and 0.1 (a relative error), got {tol}");
     }
-    let total: usize = spec.families.iter().map(|f| f.size()).sum();
+    let total: usize = spec
+        .families
+        .iter()
+        .map(|f| shard.map_or(f.size(), |s| s.range(f.size()).len()))
+        .sum();
     if total > SWEEP_CONFIRM && !yes {
         anyhow::bail!(
             "{}: the spec holds {total} cases (above {SWEEP_CONFIRM}); at about 10 000 solves per second per core this takes roughly {:.0} s of CPU; rerun with --yes to go ahead",
@@ -363,16 +363,12 @@ fn sweep_cmd(
 
 fn merge_cmd(spec_path: &Path, out: &Path) -> Result<ExitCode> {
     use ltb_atlas::sweep::spec::parse_spec;
-    use sha2::{Digest, Sha256};
     let text = std::fs::read_to_string(spec_path)
         .with_context(|| format!("cannot read the spec {}", spec_path.display()))?;
-    let hash: String = Sha256::digest(text.as_bytes())
-        .iter()
-        .map(|b| format!("{b:02x}"))
-        .collect();
     let dir = spec_path.parent().unwrap_or(Path::new("."));
     let spec =
         parse_spec(&text, &spec_path.display().to_string(), dir).map_err(anyhow::Error::new)?;
+    let hash = ltb_atlas::sweep::run::spec_hash(&text, &spec);
     let s = ltb_atlas::sweep::run::merge(&spec, &hash, out)
         .map_err(|e| anyhow::anyhow!("{}: {e}", out.display()))?;
     eprintln!(

@@ -149,7 +149,14 @@ pub struct Row {
 impl Family {
     /// Number of grid points.
     pub fn size(&self) -> usize {
-        self.axes.iter().map(Axis::len).product()
+        self.checked_size().unwrap_or(usize::MAX)
+    }
+
+    /// Number of grid points, or None when it does not fit in a usize.
+    pub fn checked_size(&self) -> Option<usize> {
+        self.axes
+            .iter()
+            .try_fold(1usize, |a, x| a.checked_mul(x.len()))
     }
 
     /// The point with linear index `i` (last axis fastest).
@@ -209,20 +216,38 @@ impl Family {
                 path::apply(&mut m, field, values[ix]);
             }
         }
-        if direction == Direction::Up {
+        // The direction axis sets the direction of every transverse load
+        // (gravity down, uplift up); end moments are reversed for "up".
+        // Without the axis the loads stay as given, and the column reports
+        // the direction of the first load the ζ axis acts on.
+        let has_direction_axis = self.axes.iter().any(|a| matches!(a, Axis::Direction(_)));
+        if has_direction_axis {
+            let s = if direction == Direction::Up {
+                1.0
+            } else {
+                -1.0
+            };
             for l in m.loads.iter_mut() {
                 match l {
-                    Load::Point { fz, .. } => *fz = -*fz,
+                    Load::Point { fz, .. } => *fz = s * fz.abs(),
                     Load::Distributed { fz_from, fz_to, .. } => {
-                        *fz_from = -*fz_from;
-                        *fz_to = -*fz_to;
+                        *fz_from = s * fz_from.abs();
+                        *fz_to = s * fz_to.abs();
                     }
                     Load::EndMoments { start, end } => {
-                        *start = -*start;
-                        *end = -*end;
+                        if direction == Direction::Up {
+                            *start = -*start;
+                            *end = -*end;
+                        }
                     }
                 }
             }
+        } else if let Some(up) = m.loads.iter().enumerate().find_map(|(k, l)| match *l {
+            Load::Point { fz, .. } if targeted(k) => Some(fz > 0.0),
+            Load::Distributed { fz_from, fz_to, .. } if targeted(k) => Some(fz_from + fz_to > 0.0),
+            _ => None,
+        }) {
+            direction = if up { Direction::Up } else { Direction::Down };
         }
         let zeta = m.loads.iter().enumerate().find_map(|(k, l)| match l {
             Load::Point { zeta, .. } | Load::Distributed { zeta, .. } if targeted(k) => Some(*zeta),
@@ -253,12 +278,14 @@ pub fn solve_point(p: Point, s: &Settings) -> Row {
     match solve::solve(&p.member, s) {
         Ok(sol) => {
             let d = sol.forward;
-            let ok = d.status != Status::NoBuckling;
+            // Only a converged case carries numbers (issue contract: failed
+            // rows keep their status and empty numbers).
+            let ok = d.status == Status::Ok;
             Row {
                 status: d.status.as_str().into(),
-                mu_cr: d.mu_cr,
+                mu_cr: d.mu_cr.filter(|_| ok),
                 mu0,
-                load_factor: d.load_factor,
+                load_factor: d.load_factor.filter(|_| ok),
                 error_estimate: ok.then_some(d.error_estimate),
                 elements: d.elements,
                 point: p,
@@ -301,16 +328,28 @@ pub fn header(f: &Family) -> Vec<String> {
 
 /// A number as CSV text: shortest round-trip form, −0 as 0.
 pub fn fmt_num(x: f64) -> String {
-    if x == 0.0 { "0".into() } else { format!("{x}") }
+    if x == 0.0 {
+        "0".into()
+    } else if x.abs() >= 1e15 || x.abs() < 1e-5 {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
 }
 
 fn opt(x: Option<f64>) -> String {
     x.filter(|v| v.is_finite()).map(fmt_num).unwrap_or_default()
 }
 
+/// What the model leaves out, printed with every table (domain notes).
+pub const CAVEATS: &str = "elastic critical values for a rigid cross-section with the restraints stated; pre-buckling \
+deflections ignored (conservative); web distortion ignored (unconservative for slender webs and for restraints on the \
+tension flange only); a cantilever's root warping condition is part of its case (see the spec)";
+
 /// The `#` lines that open a family's CSV.
 pub fn preamble(w: &mut dyn Write, f: &Family, spec_hash: &str, tolerance: f64) -> io::Result<()> {
     writeln!(w, "# {}", crate::CAUTION)?;
+    writeln!(w, "# {CAVEATS}")?;
     writeln!(
         w,
         "# family {}: {} cases; ltb-atlas {}; spec sha256 {spec_hash}; solver tolerance {}",
@@ -322,7 +361,7 @@ pub fn preamble(w: &mut dyn Write, f: &Family, spec_hash: &str, tolerance: f64) 
     writeln!(
         w,
         "# units: kappa = (pi/L)*sqrt(E*Iw/(G*It)); zeta = (pi*a/L)*sqrt(E*Iz/(G*It)) with a the load height above the shear centre; \
-         direction down = loads as given, up = every load reversed; mu_cr = Mcr*L/sqrt(E*Iz*G*It) with Mcr the largest |M|; \
+         direction down = every transverse load downward (gravity), up = every transverse load upward (uplift, end moments reversed), without a direction axis the direction of the loads as given; mu_cr = Mcr*L/sqrt(E*Iz*G*It) with Mcr the largest |M|; \
          mu_ratio = mu_cr/(pi*sqrt(1+kappa^2)) (equals C1 only with forks and zeta = 0); le_over_l = length ratio giving the same Mcr \
          in the uniform-moment fork formula; load_factor dimensionless; error_estimate relative; elements count"
     )?;
@@ -387,18 +426,22 @@ impl From<&Row> for Cell {
     }
 }
 
-/// `x` rounded down (toward zero for positive values: the safe side for a
-/// critical moment) to the last decimal that its absolute error
-/// `x·estimate` leaves meaningful:
+/// A critical value `x` (a finite-element upper bound with relative error
+/// estimate `e`) printed on the safe side: the lower end x·(1 − e) of its
+/// bracket, rounded down to the last decimal the absolute error x·e leaves
+/// meaningful:
 ///
 /// ```text
-/// q = ⌈log10(x·e)⌉,   printed = ⌊x / 10^q⌋ · 10^q   with max(0, −q) decimals
+/// q = ⌈log10(x·e)⌉,   printed = ⌊x·(1 − e) / 10^q⌋ · 10^q   with max(0, −q) decimals
 /// ```
 pub fn round_down(x: f64, estimate: f64) -> String {
-    let err = (x.abs() * estimate.max(1e-12)).max(f64::MIN_POSITIVE);
+    let e = estimate.clamp(1e-12, 0.5);
+    let err = (x.abs() * e).max(f64::MIN_POSITIVE);
     let q = err.log10().ceil() as i32;
     let step = 10f64.powi(q);
-    let v = (x / step).floor() * step;
+    // The finite-element value is an upper bound and its relative error is
+    // at most e, so the exact value is at least x·(1 − e): round that down.
+    let v = (x * (1.0 - e) / step).floor() * step;
     let decimals = (-q).max(0) as usize;
     let s = format!("{:.*}", decimals, v);
     if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
@@ -449,10 +492,23 @@ pub fn print_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String,
             .iter()
             .map(|&a| axis_label(&f.axes[a], idx[a], f))
             .collect();
+        // File-name-safe parts joined by '_', which no part contains, so
+        // distinct combinations get distinct names.
+        let safe = |t: &str| -> String {
+            t.chars()
+                .map(|c| {
+                    if c.is_ascii_alphanumeric() || c == '.' || c == '-' || c == '+' {
+                        c.to_ascii_lowercase()
+                    } else {
+                        '-'
+                    }
+                })
+                .collect()
+        };
         let combo_name = if combo.is_empty() {
             "all".to_string()
         } else {
-            combo.join(".")
+            combo.iter().map(|c| safe(c)).collect::<Vec<_>>().join("_")
         };
         let mut b: Vec<u8> = Vec::new();
         let _ = writeln!(b, "# {}", crate::CAUTION);
@@ -472,6 +528,7 @@ pub fn print_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String,
             },
             env!("CARGO_PKG_VERSION")
         );
+        let _ = writeln!(b, "# {}", CAVEATS);
         let _ = writeln!(
             b,
             "# mu_cr = Mcr*L/sqrt(E*Iz*G*It), kappa down, zeta across (height above the shear centre; \"kappa\" = top flange \
@@ -508,10 +565,23 @@ mod tests {
 
     #[test]
     fn round_down_keeps_the_digits_the_estimate_supports() {
-        // Absolute error 3.7787·7e-5 = 2.6e-4 → three decimals, rounded down.
+        // Absolute error 3.7787·7e-5 = 2.6e-4 → three decimals; the lower end
+        // of the bracket, 3.7785, rounded down.
         assert_eq!(round_down(3.778761, 7e-5), "3.778");
-        assert_eq!(round_down(3.778761, 1e-7), "3.778761");
-        assert_eq!(round_down(18.4199, 5e-5), "18.419");
+        // 3.778761·(1 − 1e-7) = 3.7787606 → six decimals, rounded down.
+        assert_eq!(round_down(3.778761, 1e-7), "3.778760");
+        // 18.4199·(1 − 5e-5) = 18.41898 → three decimals, rounded down.
+        assert_eq!(round_down(18.4199, 5e-5), "18.418");
+        // Never above the lower end of the bracket.
+        for (x, e) in [
+            (9.295345, 9.6e-5),
+            (0.0123456, 3e-4),
+            (1.0, 1e-4),
+            (123.456, 2e-6),
+        ] {
+            let p: f64 = round_down(x, e).parse().unwrap();
+            assert!(p <= x * (1.0 - e), "{x} {e}: {p}");
+        }
         // Absolute error 1.2 → the units digit is not supported.
         assert_eq!(round_down(1234.5, 1e-3), "1230");
         assert_eq!(round_down(1234.5, 1e-4), "1234");

@@ -7,7 +7,7 @@
 //! |---|---|
 //! | `delta` | monosymmetry δ |
 //! | `psi` | end-moment ratio: every end-moments load gets M(L) = ψ·M(0) |
-//! | `load.<name>.value`, `.zeta`, `.at` | magnitude (direction kept), height, position of a named load |
+//! | `load.<name>.value`, `.zeta`, `.at` | magnitude (direction and shape kept: the larger end of a distributed load or of end moments gets the value), height, position of a named load |
 //! | `restraint.<name>.at`, `.zeta`, `.lateral`, `.twist` | position, height, spring stiffnesses of a named restraint |
 //! | `continuous_restraint.<i>.lateral`, `.twist`, `.zeta` | the i-th continuous restraint (0-based) |
 //! | `start.<dof>`, `end.<dof>` | a spring at an end support (`lateral`, `lateral_rotation`, `twist`, `warping`, `vertical`, `in_plane_rotation`) |
@@ -199,24 +199,25 @@ pub fn apply(m: &mut Member, path: &FieldPath, x: f64) {
             }
             (Load::Point { at, .. }, LoadField::At) => *at = x,
             (Load::Distributed { fz_from, fz_to, .. }, LoadField::Value) => {
-                // Scale both ends so that the value at `from` becomes x.
-                let r = if *fz_from != 0.0 {
-                    *fz_to / *fz_from
+                // Keep the shape: scale so the larger end's magnitude becomes x.
+                let peak = fz_from.abs().max(fz_to.abs());
+                if peak > 0.0 {
+                    let c = x / peak;
+                    *fz_from *= c;
+                    *fz_to *= c;
                 } else {
-                    1.0
-                };
-                let s = if *fz_from < 0.0 || (*fz_from == 0.0 && *fz_to < 0.0) {
-                    -1.0
-                } else {
-                    1.0
-                };
-                *fz_from = s * x;
-                *fz_to = s * x * r;
+                    *fz_from = -x;
+                    *fz_to = -x;
+                }
             }
             (Load::EndMoments { start, end }, LoadField::Value) => {
-                let r = if *start != 0.0 { *end / *start } else { 0.0 };
-                *start = x;
-                *end = r * x;
+                // Keep the ratio: scale so the larger end moment's magnitude becomes x.
+                let peak = start.abs().max(end.abs());
+                if peak > 0.0 {
+                    let c = x / peak;
+                    *start *= c;
+                    *end *= c;
+                }
             }
             _ => {}
         },

@@ -10,6 +10,38 @@ use rayon::prelude::*;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
+/// Prefix of the temporary files a run writes before renaming them; left
+/// behind only by a killed run, and removed by the next one.
+pub const TMP_PREFIX: &str = ".ltb-atlas-tmp-";
+
+/// Remove temporary files a killed run left in `dir`.
+fn clean_stale(dir: &Path) {
+    if let Ok(rd) = std::fs::read_dir(dir) {
+        for e in rd.flatten() {
+            if e.file_name().to_string_lossy().starts_with(TMP_PREFIX) {
+                let _ = std::fs::remove_file(e.path());
+            }
+        }
+    }
+}
+
+/// The spec hash: SHA-256 of the spec text and of the canonical encoding of
+/// every resolved base case and variant (so that case files named by the
+/// spec count too), as lower-case hex.
+pub fn spec_hash(text: &str, spec: &Spec) -> String {
+    use sha2::{Digest, Sha256};
+    let mut h = Sha256::new();
+    h.update(text.as_bytes());
+    let s = Settings::default();
+    for f in &spec.families {
+        h.update(super::cache::encode(&f.case.member, &s));
+        for v in &f.variants {
+            h.update(super::cache::encode(&v.case.member, &s));
+        }
+    }
+    h.finalize().iter().map(|b| format!("{b:02x}")).collect()
+}
+
 /// Cases solved and written per chunk (bounded memory, ordered output).
 pub const CHUNK: usize = 2048;
 
@@ -92,7 +124,10 @@ pub const CHECKS: usize = 4;
 
 fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), SweepError> {
     let dir = path.parent().unwrap_or(Path::new("."));
-    let mut tmp = tempfile::NamedTempFile::new_in(dir).map_err(io(dir))?;
+    let mut tmp = tempfile::Builder::new()
+        .prefix(TMP_PREFIX)
+        .tempfile_in(dir)
+        .map_err(io(dir))?;
     tmp.write_all(bytes).map_err(io(path))?;
     tmp.persist(path).map_err(|e| SweepError::Io {
         path: path.to_path_buf(),
@@ -152,8 +187,13 @@ pub fn run(
         None => "manifest.json".to_string(),
     };
     let manifest_path = out.join(&manifest_name);
-    if manifest_path.exists() {
-        std::fs::remove_file(&manifest_path).map_err(io(&manifest_path))?;
+    clean_stale(out);
+    // Any manifest describing this folder is stale from now on; a shard run
+    // leaves the folder incomplete until `merge`.
+    for stale in [manifest_path.clone(), out.join("manifest.json")] {
+        if stale.exists() {
+            std::fs::remove_file(&stale).map_err(io(&stale))?;
+        }
     }
     let mut files = Vec::new();
     let mut fam_json = Vec::new();
@@ -166,7 +206,10 @@ pub fn run(
         };
         let target = out.join(&name);
         let range = shard.map_or(0..f.size(), |s| s.range(f.size()));
-        let mut tmp = tempfile::NamedTempFile::new_in(out).map_err(io(out))?;
+        let mut tmp = tempfile::Builder::new()
+            .prefix(TMP_PREFIX)
+            .tempfile_in(out)
+            .map_err(io(out))?;
         let mut failed = 0usize;
         let mut cells: Vec<Cell> = Vec::with_capacity(range.len());
         {
@@ -245,6 +288,7 @@ pub fn run(
             "version": env!("CARGO_PKG_VERSION"),
             "spec_sha256": spec_hash,
             "solver_tolerance": settings.tolerance,
+            "solver_revision": super::cache::SOLVER_REVISION,
             "shard": s.k,
             "of": s.n,
             "families": fam_json,
@@ -381,6 +425,76 @@ pub fn merge(spec: &Spec, spec_hash: &str, dir: &Path) -> Result<Summary, SweepE
         )));
     }
     manifests.sort_by_key(|m| m["shard"].as_u64().unwrap_or(0));
+    for (m, n) in manifests.iter().zip(&names) {
+        if m["version"].as_str() != Some(env!("CARGO_PKG_VERSION"))
+            || m["solver_revision"].as_u64() != Some(super::cache::SOLVER_REVISION as u64)
+        {
+            return Err(SweepError::Merge(format!(
+                "{n} was written by another version of ltb-atlas; run the shards again"
+            )));
+        }
+    }
+    // Check every shard of every family before writing anything.
+    for f in &spec.families {
+        let mut next = 0usize;
+        for (si, m) in manifests.iter().enumerate() {
+            let k = si + 1;
+            let e = m["families"]
+                .as_array()
+                .and_then(|a| {
+                    a.iter()
+                        .find(|e| e["name"].as_str() == Some(f.name.as_str()))
+                })
+                .ok_or_else(|| SweepError::Merge(format!("shard {k} has no family {}", f.name)))?;
+            let (from, to) = (
+                e["from"].as_u64().unwrap_or(u64::MAX) as usize,
+                e["to"].as_u64().unwrap_or(0) as usize,
+            );
+            let expected = format!("{}.shard-{k}-of-{of}.csv", f.name);
+            if e["file"].as_str() != Some(expected.as_str()) {
+                return Err(SweepError::Merge(format!(
+                    "shard {k} of family {} names an unexpected file",
+                    f.name
+                )));
+            }
+            if from != next || to < from {
+                return Err(SweepError::Merge(format!(
+                    "family {}: shard {k} covers rows {from}..{to}, expected to start at {next}",
+                    f.name
+                )));
+            }
+            let body = std::fs::read_to_string(dir.join(&expected)).map_err(|e| {
+                SweepError::Merge(format!(
+                    "cannot read {}: {e}",
+                    dir.join(&expected).display()
+                ))
+            })?;
+            let rows = body
+                .lines()
+                .filter(|l| !l.starts_with('#'))
+                .count()
+                .saturating_sub(1);
+            if rows != to - from {
+                return Err(SweepError::Merge(format!(
+                    "{expected} holds {rows} rows, its manifest says {}",
+                    to - from
+                )));
+            }
+            next = to;
+        }
+        if next != f.size() {
+            return Err(SweepError::Merge(format!(
+                "family {}: the shards cover {next} of {} rows",
+                f.name,
+                f.size()
+            )));
+        }
+    }
+    clean_stale(dir);
+    let old_manifest = dir.join("manifest.json");
+    if old_manifest.exists() {
+        std::fs::remove_file(&old_manifest).map_err(io(&old_manifest))?;
+    }
     let mut files = Vec::new();
     let mut fam_json = Vec::new();
     let (mut total, mut failed_total) = (0, 0);

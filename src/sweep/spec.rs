@@ -258,6 +258,56 @@ fn parse_family(
         return Err(t.err_at("kappa", "a κ axis needs a dimensionless base case (top-level `kappa`); physical sweeps take sections and lengths"));
     }
     let variants = super::variant::variants(src, &t, &case)?;
+    // Checks that need the whole family.
+    for e in &entries {
+        match e.name.as_str() {
+            "kappa" => {
+                if let Some(Axis::Kappa(v)) = axes.iter().find(|a| matches!(a, Axis::Kappa(_))) {
+                    if let Some(bad) = v.iter().find(|k| **k < 0.0) {
+                        return Err(src.error(
+                            &e.span,
+                            &e.key,
+                            format!("κ must be ≥ 0, found {bad}"),
+                        ));
+                    }
+                }
+            }
+            "zeta" => {
+                let targets = |c: &crate::case::ResolvedCase| {
+                    c.member.loads.iter().zip(&c.loads).any(|(l, info)| {
+                        !matches!(l, crate::model::Load::EndMoments { .. })
+                            && zeta_load
+                                .as_deref()
+                                .is_none_or(|n| info.name.as_deref() == Some(n))
+                    })
+                };
+                if !targets(&case) || variants.iter().any(|v| !targets(&v.case)) {
+                    return Err(src.error(
+                        &e.key_span,
+                        &e.key,
+                        "a ζ axis needs a point or distributed load to act on (end moments have no height); add one or drop the axis",
+                    ));
+                }
+            }
+            _ => {}
+        }
+    }
+    if case.tolerance.is_some() || variants.iter().any(|v| v.case.tolerance.is_some()) {
+        return Err(t.err_at(
+            "case",
+            "a [solver] tolerance inside a family's case would be ignored: a sweep solves every case with --tolerance (default 1e-4)",
+        ));
+    }
+    let probe = Family {
+        name: name.clone(),
+        case: case.clone(),
+        axes: axes.clone(),
+        zeta_load: zeta_load.clone(),
+        variants: Vec::new(),
+    };
+    if probe.checked_size().is_none() {
+        return Err(t.err_here("the grid of this family is too large to count: reduce the axes"));
+    }
     Ok(Family {
         name,
         case,
@@ -361,7 +411,15 @@ fn range(src: &Source<'_>, loc: &TabLoc<'_>) -> Result<Vec<f64>, CaseError> {
                     .parse()
                     .expect("a formatted float parses")
             } else {
-                from.value + s * (to.value - from.value)
+                // Twelve significant digits: 0.2 rather than 0.19999999999999996.
+                let x = from.value + s * (to.value - from.value);
+                if i == 0 {
+                    x
+                } else {
+                    format!("{x:.11e}")
+                        .parse()
+                        .expect("a formatted float parses")
+                }
             }
         })
         .collect())
