@@ -262,14 +262,10 @@ fn parse_family(
     for e in &entries {
         match e.name.as_str() {
             "kappa" => {
-                if let Some(Axis::Kappa(v)) = axes.iter().find(|a| matches!(a, Axis::Kappa(_))) {
-                    if let Some(bad) = v.iter().find(|k| **k < 0.0) {
-                        return Err(src.error(
-                            &e.span,
-                            &e.key,
-                            format!("κ must be ≥ 0, found {bad}"),
-                        ));
-                    }
+                if let Some(Axis::Kappa(v)) = axes.iter().find(|a| matches!(a, Axis::Kappa(_)))
+                    && let Some(bad) = v.iter().find(|k| **k < 0.0)
+                {
+                    return Err(src.error(&e.span, &e.key, format!("κ must be ≥ 0, found {bad}")));
                 }
             }
             "zeta" => {
