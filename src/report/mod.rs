@@ -86,6 +86,72 @@ fn support_text(s: &Support) -> String {
     )
 }
 
+/// A one-line description of a member's supports, restraints and loads
+/// (dimensionless), with a cantilever's root warping condition first.
+pub fn case_summary(m: &Member) -> String {
+    let mut parts = Vec::new();
+    if let Some((end, w)) = root_warping(m) {
+        parts.push(format!(
+            "cantilever root ({end}) warping {}",
+            fixity_text(w)
+        ));
+    }
+    parts.push(format!("start: {}", support_text(&m.start)));
+    parts.push(format!("end: {}", support_text(&m.end)));
+    for p in &m.supports {
+        parts.push(format!(
+            "support at x = {} L: {}",
+            fx(p.at, 4),
+            support_text(&p.support)
+        ));
+    }
+    for r in &m.restraints {
+        parts.push(format!(
+            "restraint at x = {} L, zeta {}: lateral {}, twist {}",
+            fx(r.at, 4),
+            fx(r.zeta, 4),
+            fixity_text(r.lateral),
+            fixity_text(r.twist)
+        ));
+    }
+    for c in &m.continuous {
+        parts.push(format!(
+            "continuous restraint {}..{} L at zeta {}: lateral {}, twist {}",
+            fx(c.from, 4),
+            fx(c.to, 4),
+            fx(c.zeta, 4),
+            c.lateral,
+            c.twist
+        ));
+    }
+    for l in &m.loads {
+        parts.push(match *l {
+            crate::model::Load::Point { at, fz, .. } => format!(
+                "point load at x = {} L, {}",
+                fx(at, 4),
+                if fz < 0.0 { "down" } else { "up" }
+            ),
+            crate::model::Load::Distributed {
+                from,
+                to,
+                fz_from,
+                fz_to,
+                ..
+            } => format!(
+                "distributed load {}..{} L, {} to {} (up positive)",
+                fx(from, 4),
+                fx(to, 4),
+                fx(fz_from, 4),
+                fx(fz_to, 4)
+            ),
+            crate::model::Load::EndMoments { start, end } => {
+                format!("end moments M(0) = {}, M(L) = {}", fx(start, 4), fx(end, 4))
+            }
+        });
+    }
+    parts.join("; ")
+}
+
 /// For a cantilever (one end free out of plane), the warping condition at
 /// its root, which every cantilever result must state (domain notes).
 pub fn root_warping(m: &Member) -> Option<(&'static str, Fixity)> {

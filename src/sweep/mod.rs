@@ -344,12 +344,38 @@ fn opt(x: Option<f64>) -> String {
 /// What the model leaves out, printed with every table (domain notes).
 pub const CAVEATS: &str = "elastic critical values for a rigid cross-section with the restraints stated; pre-buckling \
 deflections ignored (conservative); web distortion ignored (unconservative for slender webs and for restraints on the \
-tension flange only); a cantilever's root warping condition is part of its case (see the spec)";
+tension flange only); a cantilever's root warping condition is stated with its case below";
 
 /// The `#` lines that open a family's CSV.
 pub fn preamble(w: &mut dyn Write, f: &Family, spec_hash: &str, tolerance: f64) -> io::Result<()> {
     writeln!(w, "# {}", crate::CAUTION)?;
     writeln!(w, "# {CAVEATS}")?;
+    writeln!(
+        w,
+        "# base case (before the axes act): {}",
+        crate::report::case_summary(&f.case.member)
+    )?;
+    for v in &f.variants {
+        let follows: Vec<String> = v
+            .kappa_zetas
+            .iter()
+            .map(|(i, c)| format!("restraint {} at zeta = {}*kappa", i + 1, fmt_num(*c)))
+            .collect();
+        let follows = if follows.is_empty() {
+            String::new()
+        } else {
+            format!(
+                " (heights following the kappa axis: {})",
+                follows.join(", ")
+            )
+        };
+        writeln!(
+            w,
+            "# variant {}: {}{follows}",
+            v.name,
+            crate::report::case_summary(&v.case.member)
+        )?;
+    }
     writeln!(
         w,
         "# family {}: {} cases; ltb-atlas {}; spec sha256 {spec_hash}; solver tolerance {}",
