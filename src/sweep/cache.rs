@@ -277,9 +277,16 @@ impl Cache {
             ..Cache::default()
         };
         let path = dir.join(RECORDS);
-        if let Ok(text) = std::fs::read_to_string(&path) {
-            for line in text.lines() {
-                match parse_record(line) {
+        if let Ok(file) = std::fs::File::open(&path) {
+            use std::io::BufRead;
+            // Line by line as bytes: a damaged line (even invalid UTF-8) is
+            // counted and skipped, never a reason to ignore the whole store.
+            for line in std::io::BufReader::new(file).split(b'\n') {
+                let line = line?;
+                if line.is_empty() {
+                    continue;
+                }
+                match std::str::from_utf8(&line).ok().and_then(parse_record) {
                     Some((k, e)) => {
                         c.map.insert(k, e);
                     }
@@ -386,6 +393,27 @@ mod tests {
             elements: 0,
         };
         assert_eq!(parse_record(&record(&k, &e2)).unwrap().1, e2);
+    }
+
+    #[test]
+    fn a_damaged_line_never_hides_the_other_records() {
+        let dir = tempfile::tempdir().unwrap();
+        let k = [1u8; 32];
+        let e = Entry {
+            status: "ok".into(),
+            mu_cr: Some(1.5),
+            load_factor: Some(1.5),
+            error_estimate: Some(1e-5),
+            elements: 8,
+        };
+        let mut bytes = record(&k, &e).into_bytes();
+        bytes.extend_from_slice(b"\n\xff\xfe not a record\n");
+        bytes.extend_from_slice(record(&[2u8; 32], &e).as_bytes());
+        bytes.push(b'\n');
+        std::fs::write(dir.path().join(RECORDS), bytes).unwrap();
+        let c = Cache::open(dir.path()).unwrap();
+        assert_eq!((c.len(), c.corrupted), (2, 1));
+        assert_eq!(c.get(&k), Some(&e));
     }
 
     #[test]
