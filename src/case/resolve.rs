@@ -236,6 +236,20 @@ struct Builder<'s> {
     restraint_names: Vec<Option<String>>,
 }
 
+impl<'s> Builder<'s> {
+    fn new(src: &'s Source<'s>, kappa_default: Option<f64>) -> Builder<'s> {
+        Builder {
+            src,
+            phys: None,
+            reg: Reg::default(),
+            notes: Vec::new(),
+            named_height_used: false,
+            kappa_default,
+            restraint_names: Vec::new(),
+        }
+    }
+}
+
 /// Resolve a parsed document.
 pub(crate) fn resolve(src: &Source<'_>, root: &DeTable<'_>) -> Result<ResolvedCase, CaseError> {
     resolve_in(src, root, "", 0..0, None)
@@ -274,16 +288,7 @@ pub(crate) fn resolve_in(
         }
         (None, None) if kappa_default.is_some() => {
             // A sweep family supplies κ from its axis.
-            let mut b = Builder {
-                src,
-                phys: None,
-                reg: Reg::default(),
-                notes: Vec::new(),
-                named_height_used: false,
-                kappa_default: None,
-                restraint_names: Vec::new(),
-            };
-            b.kappa_default = kappa_default;
+            let mut b = Builder::new(src, kappa_default);
             b.dimensionless(&top)
         }
         (None, None) => {
@@ -311,27 +316,11 @@ pub(crate) fn resolve_in(
             Err(src.error(&root_span, "", message))
         }
         (Some(_), None) => {
-            let mut b = Builder {
-                src,
-                phys: None,
-                reg: Reg::default(),
-                notes: Vec::new(),
-                named_height_used: false,
-                kappa_default: None,
-                restraint_names: Vec::new(),
-            };
+            let mut b = Builder::new(src, None);
             b.dimensionless(&top)
         }
         (None, Some(_)) => {
-            let mut b = Builder {
-                src,
-                phys: None,
-                reg: Reg::default(),
-                notes: Vec::new(),
-                named_height_used: false,
-                kappa_default: None,
-                restraint_names: Vec::new(),
-            };
+            let mut b = Builder::new(src, None);
             b.physical(&top)
         }
     }
