@@ -121,32 +121,19 @@ fn run(cli: Cli) -> Result<ExitCode> {
     }
 }
 
-/// `FILE:LINE:COLUMN: start, end: ` naming the support tables of a case
-/// file (the first one's position), for errors about the supports as a whole.
-fn support_location(path: &Path) -> String {
-    let text = std::fs::read_to_string(path).unwrap_or_default();
-    let mut found = Vec::new();
-    for (i, line) in text.lines().enumerate() {
-        let t = line.trim();
-        for (head, key) in [
-            ("[start]", "start"),
-            ("[end]", "end"),
-            ("[[support]]", "support"),
-            ("[[restraint]]", "restraint"),
-        ] {
-            if t.starts_with(head) {
-                found.push((i + 1, key));
-            }
-        }
-    }
-    match found.first() {
-        Some((line, _)) => {
-            let keys: Vec<String> = found
+/// `FILE:LINE:COLUMN: supports start (line a), end (line b): ` naming the
+/// support tables of a case (the first one's position), for errors about the
+/// support system as a whole.
+fn support_location(path: &Path, rc: &ResolvedCase) -> String {
+    match rc.supports_at.first() {
+        Some((_, line, column)) => {
+            let keys: Vec<String> = rc
+                .supports_at
                 .iter()
-                .map(|(l, k)| format!("{k} (line {l})"))
+                .map(|(k, l, _)| format!("{k} (line {l})"))
                 .collect();
             format!(
-                "{}:{line}:1: supports {}: ",
+                "{}:{line}:{column}: supports {}: ",
                 path.display(),
                 keys.join(", ")
             )
@@ -189,7 +176,9 @@ fn solve_cmd(
     };
     let sol = solve::solve(&rc.member, &settings).map_err(|e| match e {
         // A mechanism is a matter of the supports as a whole: point at them.
-        solve::SolveError::Mechanism(msg) => anyhow::anyhow!("{}{msg}", support_location(path)),
+        solve::SolveError::Mechanism(msg) => {
+            anyhow::anyhow!("{}{msg}", support_location(path, &rc))
+        }
         other => anyhow::anyhow!("{}: {other}", path.display()),
     })?;
     // Prepare every output before writing any.

@@ -33,6 +33,9 @@ pub struct ResolvedCase {
     pub notes: Vec<String>,
     /// The `name` of each `[[restraint]]`, in file order (sweep axes address them).
     pub restraint_names: Vec<Option<String>>,
+    /// Key, line and column of `[start]`, `[end]`, every `[[support]]` and
+    /// `[[restraint]]`, in that order (for errors about the supports as a whole).
+    pub supports_at: Vec<(String, usize, usize)>,
 }
 
 /// Which kind of case.

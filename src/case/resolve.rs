@@ -682,6 +682,8 @@ impl<'s> Builder<'s> {
             };
             self.reg.add(format!("{model}.{name}"), key, span);
         }
+        self.reg
+            .add(model.to_string(), t.path.to_string(), t.span.clone());
         Ok(s)
     }
 
@@ -1402,14 +1404,22 @@ impl<'s> Builder<'s> {
                 ));
             }
         }
-        if member.warping_free_section() {
-            let mut all = vec![member.start.warping, member.end.warping];
-            all.extend(member.supports.iter().map(|s| s.support.warping));
-            if all.iter().any(|w| !w.is_free()) {
-                self.notes.push("κ = 0: the section has no warping stiffness, so warping restraints are ignored".into());
-            }
-        }
+        // (The note that warping restraints mean nothing at κ = 0 is the
+        // solver's: it applies to every way a member reaches it.)
         member.validate().map_err(|e| self.model_error(e))?;
+        // Where the supports and restraints are written, for errors about the
+        // support system as a whole (mechanisms).
+        let mut names = vec!["start".to_string(), "end".to_string()];
+        names.extend((0..member.supports.len()).map(|i| format!("support[{i}]")));
+        names.extend((0..member.restraints.len()).map(|i| format!("restraint[{i}]")));
+        let supports_at = names
+            .iter()
+            .filter_map(|n| self.reg.map.get(n))
+            .map(|(key, span)| {
+                let (line, column) = self.src.line_col(span.start);
+                (key.clone(), line, column)
+            })
+            .collect();
         Ok(ResolvedCase {
             member,
             scales,
@@ -1418,6 +1428,7 @@ impl<'s> Builder<'s> {
             tolerance,
             notes: std::mem::take(&mut self.notes),
             restraint_names: std::mem::take(&mut self.restraint_names),
+            supports_at,
         })
     }
 

@@ -165,9 +165,7 @@ pub fn root_warping(m: &Member) -> Option<(&'static str, Fixity)> {
 fn notes(case: &ResolvedCase, sol: &Solution) -> Vec<String> {
     let mut out: Vec<String> = Vec::new();
     for n in case.notes.iter().chain(sol.notes.iter()) {
-        // The same fact may be noted by the case reader and by the solver.
-        let key: String = n.chars().take(24).collect();
-        if !out.iter().any(|o| o.starts_with(&key)) {
+        if !out.contains(n) {
             out.push(n.clone());
         }
     }
