@@ -52,15 +52,6 @@ const DIMLESS_TOP: &[&str] = &["kappa", "delta", "axial", "zeta_centroid", "rho"
 const PHYS_TOP: &[&str] = &["length", "section", "material", "axial"];
 /// Support presets.
 const PRESETS: &[&str] = &["fork", "built-in", "free"];
-/// Support degrees of freedom, in schema order.
-const DOFS: &[&str] = &[
-    "lateral",
-    "lateral_rotation",
-    "twist",
-    "warping",
-    "vertical",
-    "in_plane_rotation",
-];
 /// Load kinds.
 const LOAD_KINDS: &[&str] = &["point", "uniform", "distributed", "end-moments"];
 /// Section kinds.
@@ -117,12 +108,12 @@ enum Dof {
 
 impl Dof {
     fn of(name: &str) -> Dof {
-        match name {
-            "lateral" => Dof::Lateral,
-            "lateral_rotation" => Dof::LateralRotation,
-            "twist" => Dof::Twist,
-            "warping" => Dof::Warping,
-            "vertical" => Dof::Vertical,
+        match crate::model::Component::from_key(name) {
+            Some(crate::model::Component::Lateral) => Dof::Lateral,
+            Some(crate::model::Component::LateralRotation) => Dof::LateralRotation,
+            Some(crate::model::Component::Twist) => Dof::Twist,
+            Some(crate::model::Component::Warping) => Dof::Warping,
+            Some(crate::model::Component::Vertical) => Dof::Vertical,
             _ => Dof::InPlaneRotation,
         }
     }
@@ -638,7 +629,7 @@ impl<'s> Builder<'s> {
         intermediate: bool,
     ) -> Result<Support, CaseError> {
         let mut keys = vec!["preset"];
-        keys.extend_from_slice(DOFS);
+        keys.extend(crate::model::Component::ALL.map(crate::model::Component::key));
         if intermediate {
             keys.push("at");
         }
@@ -665,15 +656,9 @@ impl<'s> Builder<'s> {
         };
         let preset_loc = t.get("preset").map(|v| (v.key, v.span));
         let mut s = base;
-        for name in DOFS {
-            let slot = match *name {
-                "lateral" => &mut s.lateral,
-                "lateral_rotation" => &mut s.lateral_rotation,
-                "twist" => &mut s.twist,
-                "warping" => &mut s.warping,
-                "vertical" => &mut s.vertical,
-                _ => &mut s.in_plane_rotation,
-            };
+        for c in crate::model::Component::ALL {
+            let name = &c.key();
+            let slot = s.component_mut(c);
             *slot = self.fixity(t, name, *slot, Dof::of(name))?;
             let (key, span) = match (t.get(name), &preset_loc) {
                 (Some(v), _) => (v.key, v.span),

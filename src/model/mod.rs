@@ -111,6 +111,64 @@ impl Support {
     }
 }
 
+/// One component a support can hold, with its case-file key.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Component {
+    /// Lateral displacement (`lateral`).
+    Lateral,
+    /// Lateral rotation (`lateral_rotation`).
+    LateralRotation,
+    /// Twist (`twist`).
+    Twist,
+    /// Warping (`warping`).
+    Warping,
+    /// Vertical displacement (`vertical`).
+    Vertical,
+    /// In-plane rotation (`in_plane_rotation`).
+    InPlaneRotation,
+}
+
+impl Component {
+    /// All components, in schema order.
+    pub const ALL: [Component; 6] = [
+        Component::Lateral,
+        Component::LateralRotation,
+        Component::Twist,
+        Component::Warping,
+        Component::Vertical,
+        Component::InPlaneRotation,
+    ];
+    /// The case-file key.
+    pub fn key(self) -> &'static str {
+        match self {
+            Component::Lateral => "lateral",
+            Component::LateralRotation => "lateral_rotation",
+            Component::Twist => "twist",
+            Component::Warping => "warping",
+            Component::Vertical => "vertical",
+            Component::InPlaneRotation => "in_plane_rotation",
+        }
+    }
+    /// The component with case-file key `k`.
+    pub fn from_key(k: &str) -> Option<Component> {
+        Component::ALL.into_iter().find(|c| c.key() == k)
+    }
+}
+
+impl Support {
+    /// The fixity of one component.
+    pub fn component_mut(&mut self, c: Component) -> &mut Fixity {
+        match c {
+            Component::Lateral => &mut self.lateral,
+            Component::LateralRotation => &mut self.lateral_rotation,
+            Component::Twist => &mut self.twist,
+            Component::Warping => &mut self.warping,
+            Component::Vertical => &mut self.vertical,
+            Component::InPlaneRotation => &mut self.in_plane_rotation,
+        }
+    }
+}
+
 /// An intermediate support at `at` (0 < at < 1, or at an end it merges).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct PointSupport {

@@ -303,26 +303,29 @@ pub fn solve_point(p: Point, s: &Settings) -> Row {
     }
 }
 
+/// Columns every family's CSV carries for the point (after its axis columns).
+pub const POINT_COLUMNS: [&str; 3] = ["kappa", "zeta", "direction"];
+
+/// Result columns of every family's CSV (the contract), in order.
+pub const RESULT_COLUMNS: [&str; 7] = [
+    "mu_cr",
+    "mu_ratio",
+    "le_over_l",
+    "load_factor",
+    "error_estimate",
+    "elements",
+    "status",
+];
+
 /// The CSV header of a family.
 pub fn header(f: &Family) -> Vec<String> {
     let mut h: Vec<String> = f.axes.iter().map(|a| a.column().to_string()).collect();
-    for c in ["kappa", "zeta", "direction"] {
+    for c in POINT_COLUMNS {
         if !h.iter().any(|x| x == c) {
             h.push(c.to_string());
         }
     }
-    h.extend(
-        [
-            "mu_cr",
-            "mu_ratio",
-            "le_over_l",
-            "load_factor",
-            "error_estimate",
-            "elements",
-            "status",
-        ]
-        .map(String::from),
-    );
+    h.extend(RESULT_COLUMNS.map(String::from));
     h
 }
 

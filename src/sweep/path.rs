@@ -13,7 +13,7 @@
 //! | `start.<dof>`, `end.<dof>` | a spring at an end support (`lateral`, `lateral_rotation`, `twist`, `warping`, `vertical`, `in_plane_rotation`) |
 
 use crate::case::ResolvedCase;
-use crate::model::{Fixity, Load, Member, Support};
+use crate::model::{Component, Fixity, Load, Member};
 
 /// A resolved path.
 #[derive(Debug, Clone, PartialEq)]
@@ -29,7 +29,7 @@ pub enum FieldPath {
     /// Continuous restraint `index`: field.
     Continuous(usize, ContinuousField),
     /// End support spring: (end is `end`, component).
-    EndSpring(bool, Dof),
+    EndSpring(bool, Component),
 }
 
 /// Fields of a load.
@@ -65,23 +65,6 @@ pub enum ContinuousField {
     Twist,
     /// Height.
     Zeta,
-}
-
-/// Support components.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Dof {
-    /// Lateral displacement.
-    Lateral,
-    /// Lateral rotation.
-    LateralRotation,
-    /// Twist.
-    Twist,
-    /// Warping.
-    Warping,
-    /// Vertical.
-    Vertical,
-    /// In-plane rotation.
-    InPlaneRotation,
 }
 
 /// Parse a path against the case it will change. The error says what is
@@ -153,31 +136,17 @@ pub fn parse_path(p: &str, case: &ResolvedCase) -> Result<FieldPath, String> {
             Ok(FieldPath::Continuous(i, f))
         }
         [end @ ("start" | "end"), dof] => {
-            let d = match *dof {
-                "lateral" => Dof::Lateral,
-                "lateral_rotation" => Dof::LateralRotation,
-                "twist" => Dof::Twist,
-                "warping" => Dof::Warping,
-                "vertical" => Dof::Vertical,
-                "in_plane_rotation" => Dof::InPlaneRotation,
-                other => return Err(format!("unknown support component `{other}`; accepted: lateral, lateral_rotation, twist, warping, vertical, in_plane_rotation")),
-            };
+            let d = Component::from_key(dof).ok_or_else(|| {
+                format!(
+                    "unknown support component `{dof}`; accepted: {}",
+                    Component::ALL.map(Component::key).join(", ")
+                )
+            })?;
             Ok(FieldPath::EndSpring(*end == "end", d))
         }
         _ => Err("accepted paths: delta, psi, load.<name>.value|zeta|at, restraint.<name>.at|zeta|lateral|twist, \
                   continuous_restraint.<i>.lateral|twist|zeta, start.<component>, end.<component>"
             .into()),
-    }
-}
-
-fn support_dof(s: &mut Support, d: Dof) -> &mut Fixity {
-    match d {
-        Dof::Lateral => &mut s.lateral,
-        Dof::LateralRotation => &mut s.lateral_rotation,
-        Dof::Twist => &mut s.twist,
-        Dof::Warping => &mut s.warping,
-        Dof::Vertical => &mut s.vertical,
-        Dof::InPlaneRotation => &mut s.in_plane_rotation,
     }
 }
 
@@ -240,7 +209,7 @@ pub fn apply(m: &mut Member, path: &FieldPath, x: f64) {
         }
         FieldPath::EndSpring(end, d) => {
             let s = if *end { &mut m.end } else { &mut m.start };
-            *support_dof(s, *d) = Fixity::Spring(x);
+            *s.component_mut(*d) = Fixity::Spring(x);
         }
     }
 }

@@ -187,20 +187,12 @@ fn parse_family(
                         ));
                     }
                     let values = numbers(src, &at, "values")?;
-                    let clash = [
-                        "kappa",
-                        "zeta",
-                        "direction",
-                        "variant",
-                        "mu_cr",
-                        "mu_ratio",
-                        "le_over_l",
-                        "load_factor",
-                        "error_estimate",
-                        "elements",
-                        "status",
-                    ];
-                    if clash.contains(&p.as_str()) || axes.iter().any(|a: &Axis| a.column() == p) {
+                    let taken = |c: &str| {
+                        c == "variant"
+                            || super::POINT_COLUMNS.contains(&c)
+                            || super::RESULT_COLUMNS.contains(&c)
+                    };
+                    if taken(&p) || axes.iter().any(|a: &Axis| a.column() == p) {
                         return Err(src.error(
                             &pv.span,
                             &pv.key,
