@@ -256,9 +256,11 @@ fn bad_specs_are_located() {
 
 #[test]
 fn end_condition_variants_follow_the_domain_notes() {
-    // Domain notes: κ = 1, top-flange tip load, μ = 3.78 with the root
-    // warping-fixed and 2.46 free to warp; a tip restraint on the top flange
-    // is far more effective than on the bottom flange.
+    // Project domain notes ("What the model leaves out" and "Discretisation
+    // facts"): κ = 1, top-flange tip load, μ = 3.78 with the root
+    // warping-fixed and 2.46 free to warp — values of an independent FE
+    // quoted there, not a published table; and a tip restraint on the top
+    // flange is far more effective than on the bottom flange.
     let spec = std::fs::read_to_string(concat!(
         env!("CARGO_MANIFEST_DIR"),
         "/tests/data/cantilever-variants.toml"
