@@ -20,6 +20,7 @@ pub mod model;
 pub mod report;
 pub mod section;
 pub mod solve;
+pub mod stage;
 pub mod sweep;
 
 /// The caution printed with every output a person reads.

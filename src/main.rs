@@ -3,11 +3,12 @@
 //! 0 solved (including "no buckling"), 1 solved but not converged to the
 //! tolerance, 2 bad input or a failed solve.
 
-use anyhow::{Context, Result};
+use anyhow::Result;
 use clap::{Parser, Subcommand};
 use ltb_atlas::case::{self, ResolvedCase};
 use ltb_atlas::report;
 use ltb_atlas::solve::{self, Settings, Status};
+use ltb_atlas::stage;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -81,9 +82,6 @@ enum Command {
     },
 }
 
-/// Grids above this many cases need `--yes`.
-const SWEEP_CONFIRM: usize = 200_000;
-
 fn main() -> ExitCode {
     let cli = Cli::parse();
     match run(cli) {
@@ -142,21 +140,6 @@ fn support_location(path: &Path, rc: &ResolvedCase) -> String {
     }
 }
 
-/// Write `bytes` to `path` through a temporary file in the same folder and
-/// a rename, so that no partial file is ever left behind.
-fn write_atomic(path: &Path, bytes: &[u8]) -> Result<()> {
-    let dir = path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let mut tmp = tempfile::NamedTempFile::new_in(dir)
-        .with_context(|| format!("cannot write in {}", dir.display()))?;
-    tmp.write_all(bytes)?;
-    tmp.persist(path)
-        .with_context(|| format!("cannot write {}", path.display()))?;
-    Ok(())
-}
-
 fn solve_cmd(
     path: &Path,
     json: bool,
@@ -198,7 +181,7 @@ fn solve_cmd(
         report::write_text(&mut out, &rc, &sol, &path.display().to_string())?;
     }
     if let (Some(p), Some(b)) = (mode, mode_bytes) {
-        write_atomic(p, &b)?;
+        stage::write_atomic(p, &b)?;
     }
     std::io::stdout().write_all(&out)?;
     let not_conv = sol.forward.status == Status::NotConverged
@@ -235,130 +218,60 @@ fn sweep_cmd(
                 ))
             });
             match parsed {
-                Some((k, n)) if n >= 1 && (1..=n).contains(&k) => Some(sweep::run::Shard { k, n }),
+                Some((k, n)) if n >= 1 && (1..=n).contains(&k) => {
+                    Some(ltb_atlas::sweep::run::Shard { k, n })
+                }
                 _ => {
                     anyhow::bail!("--shard {t}: write K/N with 1 ≤ K ≤ N, for example --shard 2/8")
                 }
             }
         }
     };
-    use indicatif::{ProgressBar, ProgressStyle};
-    use ltb_atlas::sweep::{self, spec::parse_spec};
-    use std::io::IsTerminal;
-
-    let text = std::fs::read_to_string(spec_path)
-        .with_context(|| format!("cannot read the spec {}", spec_path.display()))?;
-    let dir = spec_path.parent().unwrap_or(Path::new("."));
-    let spec =
-        parse_spec(&text, &spec_path.display().to_string(), dir).map_err(anyhow::Error::new)?;
-    let hash = sweep::run::spec_hash(&text, &spec);
-    let tol = tolerance.unwrap_or(1e-4);
-    if !(tol > 0.0 && tol < 0.1) {
-        anyhow::bail!("--tolerance must lie between 0 and 0.1 (a relative error), got {tol}");
-    }
-    let total: usize = spec
-        .families
-        .iter()
-        .map(|f| shard.map_or(f.size(), |s| s.range(f.size()).len()))
-        .sum();
-    if total > SWEEP_CONFIRM && !yes {
-        anyhow::bail!(
-            "{}: the spec holds {total} cases (above {SWEEP_CONFIRM}); at about 10 000 solves per second per core this takes roughly {:.0} s of CPU; rerun with --yes to go ahead",
-            spec_path.display(),
-            total as f64 / 1e4
-        );
-    }
-    let mut pool = rayon::ThreadPoolBuilder::new();
-    if let Some(j) = jobs {
-        anyhow::ensure!(j >= 1, "--jobs must be at least 1");
-        pool = pool.num_threads(j);
-    }
-    let pool = pool.build().context("cannot start the worker threads")?;
-    let settings = Settings {
-        tolerance: tol,
-        ..Default::default()
-    };
-    let show_bar = !quiet && std::io::stderr().is_terminal();
-    let bar = if show_bar {
-        let b = ProgressBar::new(total as u64);
-        b.set_style(
-            ProgressStyle::with_template(
-                "{spinner} [{elapsed_precise}] {bar:40} {pos}/{len} cases ({per_sec}, ETA {eta})",
-            )
-            .expect("valid template"),
-        );
-        b
-    } else {
-        ProgressBar::hidden()
-    };
-    let progress = |n: u64| bar.inc(n);
-    let mut log = |line: String| {
-        if !quiet && !show_bar {
-            eprintln!("{line}");
-        }
-    };
-    let mut cache = if no_cache {
-        sweep::cache::Cache::disabled()
-    } else {
-        let dir = cache_dir.unwrap_or_else(sweep::cache::default_dir);
-        sweep::cache::Cache::open(&dir).with_context(|| {
-            format!(
-                "cannot open the result cache {} (use --cache DIR or --no-cache)",
-                dir.display()
-            )
-        })?
-    };
-    if cache.corrupted > 0 && !quiet {
-        eprintln!(
-            "warning: {} damaged cache records ignored (their cases are solved again)",
-            cache.corrupted
-        );
-    }
-    let cx = sweep::run::Context {
-        pool: &pool,
-        settings: &settings,
-        cache: &mut cache,
-        progress: &progress,
-        log: &mut log,
-    };
-    let summary = sweep::run::run(&spec, &hash, out, shard, cx)
-        .map_err(|e| anyhow::anyhow!("{e} (check the --out folder and its permissions)"))?;
-    if summary.discarded && !quiet {
-        eprintln!(
-            "warning: a cached result differed from a fresh solve; the cache was discarded and rebuilt"
-        );
-    }
-    if !quiet && summary.hits > 0 {
-        eprintln!(
-            "{} of {} cases from the cache ({} checked by solving again)",
-            summary.hits, summary.cases, summary.checked
-        );
-    }
-    bar.finish_and_clear();
-    let failed_total = summary.failed;
+    let opts = stage_options(jobs, tolerance, quiet, yes, cache_dir, no_cache);
+    let ls = stage::load_spec(spec_path)?;
+    let summary = stage::sweep(&ls, out, &opts, shard)?;
     if !quiet {
         eprintln!(
-            "{total} cases in {} families, {failed_total} not ok; tables and manifest in {}",
-            spec.families.len(),
+            "{} cases in {} families, {} not ok; tables and manifest in {}",
+            summary.cases,
+            ls.spec.families.len(),
+            summary.failed,
             out.display()
         );
     }
-    Ok(if failed_total > 0 {
+    Ok(if summary.failed > 0 {
         ExitCode::from(1)
     } else {
         ExitCode::SUCCESS
     })
 }
 
+/// The shared stage options from the command-line flags.
+fn stage_options(
+    jobs: Option<usize>,
+    tolerance: Option<f64>,
+    quiet: bool,
+    yes: bool,
+    cache_dir: Option<PathBuf>,
+    no_cache: bool,
+) -> stage::Options {
+    stage::Options {
+        jobs,
+        tolerance: tolerance.unwrap_or(1e-4),
+        quiet,
+        yes,
+        cache: match (no_cache, cache_dir) {
+            (true, _) => stage::CacheChoice::Off,
+            (false, Some(d)) => stage::CacheChoice::Dir(d),
+            (false, None) => stage::CacheChoice::Default,
+        },
+    }
+}
+
 fn merge_cmd(spec_path: &Path, out: &Path) -> Result<ExitCode> {
-    use ltb_atlas::sweep::spec::parse_spec;
-    let text = std::fs::read_to_string(spec_path)
-        .with_context(|| format!("cannot read the spec {}", spec_path.display()))?;
-    let dir = spec_path.parent().unwrap_or(Path::new("."));
-    let spec =
-        parse_spec(&text, &spec_path.display().to_string(), dir).map_err(anyhow::Error::new)?;
-    let hash = ltb_atlas::sweep::run::spec_hash(&text, &spec);
-    let s = ltb_atlas::sweep::run::merge(&spec, &hash, out)
+    let ls = stage::load_spec(spec_path)?;
+    let (spec, hash) = (&ls.spec, &ls.hash);
+    let s = ltb_atlas::sweep::run::merge(spec, hash, out)
         .map_err(|e| anyhow::anyhow!("{}: {e}", out.display()))?;
     eprintln!(
         "merged {} cases ({} not ok) into {}",

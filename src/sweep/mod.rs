@@ -495,6 +495,104 @@ fn axis_label(a: &Axis, i: usize, f: &Family) -> String {
     }
 }
 
+/// One combination of a family's axes other than κ and ζ (direction,
+/// variant, path axes): the unit of print tables, fits, rule checks and
+/// charts.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Combination {
+    /// File-name-safe name: the axis values joined by '_' (which no part
+    /// contains), or "all" when the family has no other axis.
+    pub name: String,
+    /// (column, value as written) of each other axis, in spec order.
+    pub labels: Vec<(String, String)>,
+    /// Indices of the other axes in [`Family::axes`].
+    pub axes: Vec<usize>,
+    /// A full axis index vector with the other axes set (κ and ζ at 0).
+    pub index: Vec<usize>,
+}
+
+/// File-name-safe form of an axis value: ASCII letters (lower-cased),
+/// digits, '.', '-', '+'; anything else becomes '-'.
+pub fn safe_name(t: &str) -> String {
+    t.chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || c == '.' || c == '-' || c == '+' {
+                c.to_ascii_lowercase()
+            } else {
+                '-'
+            }
+        })
+        .collect()
+}
+
+/// The combinations of a family's axes other than κ and ζ, in grid order.
+pub fn combinations(f: &Family) -> Vec<Combination> {
+    let ka = f.axes.iter().position(|a| matches!(a, Axis::Kappa(_)));
+    let za = f.axes.iter().position(|a| matches!(a, Axis::Zeta(_)));
+    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
+    let others: Vec<usize> = (0..f.axes.len())
+        .filter(|&a| Some(a) != ka && Some(a) != za)
+        .collect();
+    let count: usize = others.iter().map(|&a| lens[a]).product();
+    (0..count)
+        .map(|c| {
+            let mut idx = vec![0; f.axes.len()];
+            let mut r = c;
+            for &a in others.iter().rev() {
+                idx[a] = r % lens[a];
+                r /= lens[a];
+            }
+            let labels: Vec<(String, String)> = others
+                .iter()
+                .map(|&a| {
+                    (
+                        f.axes[a].column().to_string(),
+                        axis_label(&f.axes[a], idx[a], f),
+                    )
+                })
+                .collect();
+            let name = if labels.is_empty() {
+                "all".to_string()
+            } else {
+                labels
+                    .iter()
+                    .map(|(_, v)| safe_name(v))
+                    .collect::<Vec<_>>()
+                    .join("_")
+            };
+            Combination {
+                name,
+                labels,
+                axes: others.clone(),
+                index: idx,
+            }
+        })
+        .collect()
+}
+
+/// The combination name of grid point `i` (see [`combinations`]).
+pub fn combination_of(f: &Family, i: usize) -> String {
+    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
+    let mut idx = vec![0; f.axes.len()];
+    let mut r = i;
+    for (a, ix) in idx.iter_mut().enumerate().rev() {
+        *ix = r % lens[a];
+        r /= lens[a];
+    }
+    let parts: Vec<String> = f
+        .axes
+        .iter()
+        .zip(&idx)
+        .filter(|(a, _)| !matches!(a, Axis::Kappa(_) | Axis::Zeta(_)))
+        .map(|(a, &ix)| safe_name(&axis_label(a, ix, f)))
+        .collect();
+    if parts.is_empty() {
+        "all".to_string()
+    } else {
+        parts.join("_")
+    }
+}
+
 /// Wide print tables of a family with both a κ and a ζ axis: μcr with κ
 /// down and ζ across, one table per combination of the other axes (in spec
 /// order), values rounded down to the digits their error estimate supports;
@@ -506,39 +604,14 @@ pub fn print_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String,
         return Vec::new();
     };
     let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
-    let others: Vec<usize> = (0..f.axes.len()).filter(|&a| a != ka && a != za).collect();
-    let combos: usize = others.iter().map(|&a| lens[a]).product();
     let index = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
     let mut out = Vec::new();
-    for c in 0..combos {
-        let mut idx = vec![0; f.axes.len()];
-        let mut r = c;
-        for &a in others.iter().rev() {
-            idx[a] = r % lens[a];
-            r /= lens[a];
-        }
-        let combo: Vec<String> = others
-            .iter()
-            .map(|&a| axis_label(&f.axes[a], idx[a], f))
-            .collect();
-        // File-name-safe parts joined by '_', which no part contains, so
-        // distinct combinations get distinct names.
-        let safe = |t: &str| -> String {
-            t.chars()
-                .map(|c| {
-                    if c.is_ascii_alphanumeric() || c == '.' || c == '-' || c == '+' {
-                        c.to_ascii_lowercase()
-                    } else {
-                        '-'
-                    }
-                })
-                .collect()
-        };
-        let combo_name = if combo.is_empty() {
-            "all".to_string()
-        } else {
-            combo.iter().map(|c| safe(c)).collect::<Vec<_>>().join("_")
-        };
+    for combo in combinations(f) {
+        let mut idx = combo.index.clone();
+        let others: Vec<usize> = combo.axes.clone();
+        let combo_labels: Vec<String> = combo.labels.iter().map(|(_, v)| v.clone()).collect();
+        let combo_name = combo.name.clone();
+        let combo = combo_labels;
         let mut b: Vec<u8> = Vec::new();
         let _ = writeln!(b, "# {}", crate::CAUTION);
         let _ = writeln!(

@@ -31,7 +31,16 @@ const FAMILY_KEYS: &[&str] = &[
     "case",
     "variant",
     "axis",
+    // Read by later stages from the same spec text (each parses its own
+    // key with located errors): fits, rule checks, charts, resistance.
+    "fit",
+    "rules",
+    "charts",
+    "resistance",
 ];
+/// Top-level keys of a spec: `family`, plus tables read by later stages
+/// (office rules, the handbook, chart and design settings).
+pub const TOP_KEYS: &[&str] = &["family", "rule", "handbook", "chart", "design"];
 /// Keys of a range table.
 const RANGE_KEYS: &[&str] = &["from", "to", "count", "spacing"];
 
@@ -61,7 +70,7 @@ pub fn parse_spec(text: &str, origin: &str, dir: &Path) -> Result<Spec, CaseErro
         span: &top_span,
         t: root.get_ref(),
     };
-    top.check_keys(&["family"], &|_| None)?;
+    top.check_keys(TOP_KEYS, &|_| None)?;
     let fams = top.tables("family")?;
     if fams.is_empty() {
         return Err(src.error(
