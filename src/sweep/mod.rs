@@ -167,8 +167,18 @@ impl Family {
             *ix = r % a.len();
             r /= a.len();
         }
+        self.point_at(&idx, None, None)
+    }
+
+    /// The point at axis indices `idx` (one per axis, in axis order), with
+    /// κ and/or ζ optionally replaced by free values off the grid (for
+    /// validation grids and frontier refinement): `kappa` replaces the κ
+    /// axis value, and restraint heights and ζ values written as multiples
+    /// of κ follow it; `zeta` replaces the ζ axis value (a plain height).
+    pub fn point_at(&self, idx: &[usize], kappa: Option<f64>, zeta: Option<f64>) -> Point {
+        assert_eq!(idx.len(), self.axes.len(), "one index per axis");
         let mut variant: Option<&Variant> = None;
-        for (a, &ix) in self.axes.iter().zip(&idx) {
+        for (a, &ix) in self.axes.iter().zip(idx) {
             if let Axis::Variant(v) = a {
                 variant = Some(&self.variants[v[ix]]);
             }
@@ -177,13 +187,19 @@ impl Family {
         let mut m = case.member.clone();
         let mut direction = Direction::Down;
         let mut zeta_value: Option<AxisValue> = None;
-        for (a, &ix) in self.axes.iter().zip(&idx) {
+        for (a, &ix) in self.axes.iter().zip(idx) {
             match a {
                 Axis::Kappa(v) => m.kappa = v[ix],
-                Axis::Zeta(v) => zeta_value = Some(v[ix]),
+                Axis::Zeta(v) => zeta_value = Some(zeta.map_or(v[ix], AxisValue::Num)),
                 Axis::Direction(v) => direction = v[ix],
                 Axis::Variant(_) | Axis::Path { .. } => {}
             }
+        }
+        if let Some(k) = kappa {
+            m.kappa = k;
+        }
+        if let (Some(z), None) = (zeta, zeta_value) {
+            zeta_value = Some(AxisValue::Num(z));
         }
         if let Some(v) = variant {
             for &(r, c) in &v.kappa_zetas {
@@ -211,7 +227,7 @@ impl Family {
             }
         }
         // Path axes last among the changes, so an explicit path wins.
-        for (a, &ix) in self.axes.iter().zip(&idx) {
+        for (a, &ix) in self.axes.iter().zip(idx) {
             if let Axis::Path { field, values, .. } = a {
                 path::apply(&mut m, field, values[ix]);
             }
@@ -261,7 +277,7 @@ impl Family {
             paths: self
                 .axes
                 .iter()
-                .zip(&idx)
+                .zip(idx)
                 .filter_map(|(a, &ix)| match a {
                     Axis::Path { values, .. } => Some(values[ix]),
                     _ => None,
@@ -687,6 +703,41 @@ mod tests {
         // Absolute error 1.2 → the units digit is not supported.
         assert_eq!(round_down(1234.5, 1e-3), "1230");
         assert_eq!(round_down(1234.5, 1e-4), "1234");
+    }
+
+    #[test]
+    fn off_grid_points_match_grid_points_at_grid_values() {
+        let text = r#"
+[[family]]
+name = "t"
+kappa = [0.5, 1.0]
+zeta = ["kappa", 0.2]
+direction = ["down", "up"]
+[family.case]
+start = { preset = "built-in" }
+end = { preset = "free" }
+[[family.case.load]]
+kind = "point"
+at = 1.0
+"#;
+        let spec = spec::parse_spec(text, "t.toml", std::path::Path::new(".")).unwrap();
+        let f = &spec.families[0];
+        let combos = combinations(f);
+        assert_eq!(combos.len(), 2);
+        assert_eq!(combos[1].name, "up");
+        for i in 0..f.size() {
+            assert_eq!(combination_of(f, i), if i % 2 == 0 { "down" } else { "up" });
+        }
+        // Grid point 1: κ = 0.5, ζ = κ, up.
+        let p = f.point(1);
+        let q = f.point_at(&[0, 0, 1], Some(0.5), None);
+        assert_eq!(p, q);
+        // Off the grid: κ follows, ζ = κ follows κ; an explicit ζ wins.
+        let r = f.point_at(&[0, 0, 1], Some(0.7), None);
+        assert_eq!((r.kappa, r.zeta), (0.7, Some(0.7)));
+        let r = f.point_at(&[0, 0, 1], Some(0.7), Some(-0.3));
+        assert_eq!((r.kappa, r.zeta), (0.7, Some(-0.3)));
+        assert_eq!(r.direction, Direction::Up);
     }
 
     #[test]
