@@ -155,6 +155,27 @@ struct NodeActions {
     torque: bool,
 }
 
+/// Node actions of the nodes where something acts, in insertion order (a
+/// handful per member: a linear search beats a map).
+#[derive(Default)]
+struct Acts(Vec<(usize, NodeActions)>);
+
+impl Acts {
+    fn at(&mut self, i: usize) -> &mut NodeActions {
+        let k = match self.0.iter().position(|(j, _)| *j == i) {
+            Some(k) => k,
+            None => {
+                self.0.push((i, NodeActions::default()));
+                self.0.len() - 1
+            }
+        };
+        &mut self.0[k].1
+    }
+    fn get_mut(&mut self, i: usize) -> Option<&mut NodeActions> {
+        self.0.iter_mut().find(|(j, _)| *j == i).map(|(_, a)| a)
+    }
+}
+
 /// Constraint rows at a node (a handful at most; no heap allocation).
 #[derive(Clone, Copy)]
 struct Rows {
@@ -254,15 +275,17 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         })
         .collect();
 
-    // Node actions.
-    let mut acts = vec![NodeActions::default(); nn];
+    // Node actions, kept only for the few nodes where something acts
+    // (supports, restraints, point loads); every other node carries warping
+    // continuity alone.
+    let mut acts = Acts::default();
     let warping_at = |i: usize| {
         let l = if i > 0 { els[i - 1].eiw } else { 0.0 };
         let r = if i < ne { els[i].eiw } else { 0.0 };
         l > 0.0 || r > 0.0
     };
-    let sup = |i: usize, s: &Support, acts: &mut Vec<NodeActions>| {
-        let a = &mut acts[i];
+    let sup = |i: usize, s: &Support, acts: &mut Acts| {
+        let a = acts.at(i);
         apply(a, s.lateral, unit(0));
         apply(a, s.lateral_rotation, unit(1));
         apply(a, s.twist, unit(2));
@@ -292,22 +315,34 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         let a = r.zeta / PI;
         let mut c = unit(0);
         c[2] = -a;
-        apply(&mut acts[i], r.lateral, c);
-        apply(&mut acts[i], r.twist, unit(2));
-        acts[i].torque |= !r.twist.is_free() || (!r.lateral.is_free() && a != 0.0);
+        let act = acts.at(i);
+        apply(act, r.lateral, c);
+        apply(act, r.twist, unit(2));
+        act.torque |= !r.twist.is_free() || (!r.lateral.is_free() && a != 0.0);
     }
     for l in &m.loads {
         if let Load::Point { at, fz, zeta } = *l {
-            let i = node_at(x, at);
-            acts[i].geo[2][2] += fz * zeta / PI;
-            acts[i].torque |= zeta != 0.0 && fz != 0.0;
+            let act = acts.at(node_at(x, at));
+            act.geo[2][2] += fz * zeta / PI;
+            act.torque |= zeta != 0.0 && fz != 0.0;
         }
     }
 
     // DOF maps.
     let mut dofs = Vec::with_capacity(nn);
     let mut off = 0;
-    for (i, a) in acts.iter_mut().enumerate() {
+    let tied_sel = selection(&TIED, 4);
+    for i in 0..nn {
+        let Some(a) = acts.get_mut(i) else {
+            dofs.push(NodeDofs {
+                offset: off,
+                r: 4,
+                t: TIED,
+                sel: tied_sel,
+            });
+            off += 4;
+            continue;
+        };
         let interior = i > 0 && i + 1 < nn;
         let split = interior && a.torque && els[i - 1].eiw == 0.0 && els[i].eiw == 0.0;
         if !split {
@@ -344,9 +379,9 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         scatter_element(&mut k, &mut g, &ke, &ge, &dofs[e], &dofs[e + 1]);
     }
     // Node matrices.
-    for (i, a) in acts.iter().enumerate() {
-        scatter_node(&mut k, &a.spring, &dofs[i]);
-        scatter_node(&mut g, &a.geo, &dofs[i]);
+    for (i, a) in &acts.0 {
+        scatter_node(&mut k, &a.spring, &dofs[*i]);
+        scatter_node(&mut g, &a.geo, &dofs[*i]);
     }
     System {
         x: x.to_vec(),
@@ -368,6 +403,36 @@ fn scatter_element(
     d1: &NodeDofs,
     d2: &NodeDofs,
 ) {
+    // Fast path: every full DOF of both nodes is held or equals one reduced
+    // DOF (coefficient 1), so each local DOF has at most one global index.
+    if let (Some(s1), Some(s2)) = (d1.sel, d2.sel) {
+        let mut gidx = [usize::MAX; 8];
+        for l in 0..8 {
+            let (d, s, f) = if l < 4 {
+                (d1, &s1, LEFT[l])
+            } else {
+                (d2, &s2, RIGHT[l - 4])
+            };
+            if let Some(c) = s[f] {
+                gidx[l] = d.offset + c as usize;
+            }
+        }
+        for i in 0..8 {
+            let gi = gidx[i];
+            if gi == usize::MAX {
+                continue;
+            }
+            for j in 0..8 {
+                let gj = gidx[j];
+                if gj == usize::MAX || gi < gj {
+                    continue;
+                }
+                k.add_lower(gi, gj, ke[i][j]);
+                g.add_lower(gi, gj, ge[i][j]);
+            }
+        }
+        return;
+    }
     // For each local full DOF, its (global reduced index, coefficient) list.
     let mut lists: [([(usize, f64); NFULL], usize); 8] = [([(0, 0.0); NFULL], 0); 8];
     for l in 0..8 {
