@@ -15,6 +15,7 @@
 //! Physical cases are converted to this form by [`crate::case`]; the scale
 //! factors needed to convert results back live in [`Scales`].
 
+pub mod backspan;
 mod validate;
 
 pub use validate::ModelError;

@@ -74,6 +74,11 @@ fn support_json(s: &Support) -> Value {
     })
 }
 
+/// A one-line description of a support's components.
+pub fn support_summary(s: &Support) -> String {
+    support_text(s)
+}
+
 fn support_text(s: &Support) -> String {
     format!(
         "lateral {}, lateral rotation {}, twist {}, warping {}; vertical {}, in-plane rotation {}",

@@ -5,7 +5,7 @@
 //! numerics below keep typed errors.
 
 use crate::solve::Settings;
-use crate::sweep::cache::{self, Cache, key};
+use crate::sweep::cache::{self, Cache, point_key};
 use crate::sweep::run::{self, Shard, Summary};
 use crate::sweep::spec::{Spec, parse_spec};
 use crate::sweep::{Family, Point, Row, solve_point};
@@ -252,7 +252,7 @@ pub fn solve_points(
         points
             .into_par_iter()
             .map(|p| {
-                let k = key(&p.member, settings);
+                let k = point_key(&p, settings);
                 match shared.get(&k) {
                     Some(e) => (e.row(p), None),
                     None => (solve_point(p, settings), Some(k)),

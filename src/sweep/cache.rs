@@ -188,6 +188,22 @@ pub fn key(m: &Member, s: &Settings) -> [u8; 32] {
     Sha256::digest(encode(m, s)).into()
 }
 
+/// The cache key of a grid point: its member's key, extended by the
+/// factor that converts the member's μ to the point's reference length when
+/// that factor is not 1 (a backspan), since cached rows hold μ already
+/// converted.
+pub fn point_key(p: &Point, s: &Settings) -> [u8; 32] {
+    match p.backspan {
+        None => key(&p.member, s),
+        Some(r) => {
+            let mut b = encode(&p.member, s);
+            b.extend_from_slice(b"backspan_ratio");
+            b.extend_from_slice(&bits(r).to_le_bytes());
+            Sha256::digest(b).into()
+        }
+    }
+}
+
 fn hex(b: &[u8]) -> String {
     b.iter().map(|x| format!("{x:02x}")).collect()
 }

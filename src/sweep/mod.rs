@@ -51,6 +51,8 @@ pub enum Axis {
     Direction(Vec<Direction>),
     /// End-condition variants (indices into [`Family::variants`]).
     Variant(Vec<usize>),
+    /// Backspan-to-overhang length ratios (with [`Family::backspan`]).
+    Backspan(Vec<f64>),
     /// Any numeric field of the case, by path (see [`path`]).
     Path {
         /// The path as written (the CSV column name).
@@ -81,6 +83,7 @@ impl Axis {
             Axis::Zeta(_) => "zeta",
             Axis::Direction(_) => "direction",
             Axis::Variant(_) => "variant",
+            Axis::Backspan(_) => "backspan_ratio",
             Axis::Path { name, .. } => name,
         }
     }
@@ -90,6 +93,7 @@ impl Axis {
             Axis::Zeta(v) => v.len(),
             Axis::Direction(v) => v.len(),
             Axis::Variant(v) => v.len(),
+            Axis::Backspan(v) => v.len(),
             Axis::Path { values, .. } => values.len(),
         }
     }
@@ -108,6 +112,18 @@ pub struct Family {
     pub zeta_load: Option<String>,
     /// End-condition variants, if the family has a `variant` axis.
     pub variants: Vec<Variant>,
+    /// The backspan in front of the case (with a `backspan_ratio` axis):
+    /// the case is the overhang and stays the reference length.
+    pub backspan: Option<Backspan>,
+}
+
+/// A backspan in front of an overhang case (see [`crate::model::backspan`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Backspan {
+    /// Support at the far end of the backspan.
+    pub far: crate::model::Support,
+    /// Whether the overhang's distributed loads continue over the backspan.
+    pub loads: crate::model::backspan::BackspanLoads,
 }
 
 /// One grid point, resolved.
@@ -123,8 +139,19 @@ pub struct Point {
     pub variant: Option<String>,
     /// Values of the path axes, in axis order.
     pub paths: Vec<f64>,
-    /// The member to solve.
+    /// Backspan-to-overhang ratio (None without a backspan axis).
+    pub backspan: Option<f64>,
+    /// The member to solve (with a backspan: the whole beam).
     pub member: Member,
+}
+
+impl Point {
+    /// Factor from the solved member's μ to the point's reference length
+    /// (the overhang with a backspan; else 1).
+    pub fn mu_scale(&self) -> f64 {
+        self.backspan
+            .map_or(1.0, crate::model::backspan::overhang_fraction)
+    }
 }
 
 /// One result row.
@@ -192,7 +219,7 @@ impl Family {
                 Axis::Kappa(v) => m.kappa = v[ix],
                 Axis::Zeta(v) => zeta_value = Some(zeta.map_or(v[ix], AxisValue::Num)),
                 Axis::Direction(v) => direction = v[ix],
-                Axis::Variant(_) | Axis::Path { .. } => {}
+                Axis::Variant(_) | Axis::Backspan(_) | Axis::Path { .. } => {}
             }
         }
         if let Some(k) = kappa {
@@ -269,11 +296,20 @@ impl Family {
             Load::Point { zeta, .. } | Load::Distributed { zeta, .. } if targeted(k) => Some(*zeta),
             _ => None,
         });
+        let backspan = self.axes.iter().zip(idx).find_map(|(a, &ix)| match a {
+            Axis::Backspan(v) => Some(v[ix]),
+            _ => None,
+        });
+        let kappa_ref = m.kappa;
+        if let (Some(r), Some(b)) = (backspan, &self.backspan) {
+            m = crate::model::backspan::with_backspan(&m, r, b.far, b.loads);
+        }
         Point {
-            kappa: m.kappa,
+            kappa: kappa_ref,
             zeta,
             direction,
             variant: variant.map(|v| v.name.clone()),
+            backspan,
             paths: self
                 .axes
                 .iter()
@@ -297,9 +333,10 @@ pub fn solve_point(p: Point, s: &Settings) -> Row {
             // Only a converged case carries numbers (issue contract: failed
             // rows keep their status and empty numbers).
             let ok = d.status == Status::Ok;
+            let scale = p.mu_scale();
             Row {
                 status: d.status.as_str().into(),
-                mu_cr: d.mu_cr.filter(|_| ok),
+                mu_cr: d.mu_cr.filter(|_| ok).map(|mu| mu * scale),
                 mu0,
                 load_factor: d.load_factor.filter(|_| ok),
                 error_estimate: ok.then_some(d.error_estimate),
@@ -410,6 +447,20 @@ pub fn preamble(w: &mut dyn Write, f: &Family, spec_hash: &str, tolerance: f64) 
          mu_ratio = mu_cr/(pi*sqrt(1+kappa^2)) (equals C1 only with forks and zeta = 0); le_over_l = length ratio giving the same Mcr \
          in the uniform-moment fork formula; load_factor dimensionless; error_estimate relative; elements count"
     )?;
+    if let Some(b) = &f.backspan {
+        writeln!(
+            w,
+            "# backspan: L is the overhang (root to tip) and the reference length of kappa, zeta and mu_cr; a backspan of \
+             backspan_ratio*L lies in front of the root, whose support is the case's start support; far end of the backspan: {}; \
+             backspan loads: {}; load_factor refers to the loads as given; Mcr is the largest |M| over the whole beam",
+            crate::report::support_summary(&b.far),
+            match b.loads {
+                crate::model::backspan::BackspanLoads::None => "none",
+                crate::model::backspan::BackspanLoads::Continue =>
+                    "the overhang's distributed loads continue with the same intensity and height",
+            }
+        )?;
+    }
     writeln!(
         w,
         "# status: ok | no-buckling | not-converged | error: ... (failed cases keep their row with empty numbers)"
@@ -437,6 +488,7 @@ pub fn write_row(
             }
             .into(),
             "variant" => p.variant.clone().unwrap_or_default(),
+            "backspan_ratio" => opt(p.backspan),
             "mu_cr" => opt(r.mu_cr),
             "mu_ratio" => opt(r.mu_cr.map(|m| m / r.mu0)),
             "le_over_l" => opt(r.mu_cr.map(|m| le_over_l(m, p.kappa))),
@@ -507,6 +559,7 @@ fn axis_label(a: &Axis, i: usize, f: &Family) -> String {
         },
         Axis::Direction(v) => if v[i] == Direction::Up { "up" } else { "down" }.into(),
         Axis::Variant(v) => f.variants[v[i]].name.clone(),
+        Axis::Backspan(v) => fmt_num(v[i]),
         Axis::Path { values, .. } => fmt_num(values[i]),
     }
 }

@@ -2,7 +2,7 @@
 //! pool and written in order, print tables, and the manifest last. Files go
 //! through temporary files in the target folder and a rename.
 
-use super::cache::{Cache, Entry, key};
+use super::cache::{Cache, Entry, point_key};
 use super::spec::Spec;
 use super::{Cell, Row, header, preamble, print_tables, solve_point, write_row};
 use crate::solve::Settings;
@@ -164,7 +164,7 @@ pub fn run(
             let range = shard.map_or(0..f.size(), |s| s.range(f.size()));
             for i in range.take(64 * CHUNK) {
                 let p = f.point(i);
-                let k = key(&p.member, settings);
+                let k = point_key(&p, settings);
                 if let Some(e) = cache.get(&k).cloned() {
                     checked += 1;
                     found += 1;
@@ -230,7 +230,7 @@ pub fn run(
                         .into_par_iter()
                         .map(|i| {
                             let p = f.point(i);
-                            let k = key(&p.member, settings);
+                            let k = point_key(&p, settings);
                             let out = match shared.get(&k) {
                                 Some(e) => (e.row(p), None),
                                 None => (solve_point(p, settings), Some(k)),

@@ -31,6 +31,8 @@ const FAMILY_KEYS: &[&str] = &[
     "case",
     "variant",
     "axis",
+    "backspan_ratio",
+    "backspan",
     // Read by later stages from the same spec text (each parses its own
     // key with located errors): fits, rule checks, charts, resistance.
     "fit",
@@ -181,6 +183,16 @@ fn parse_family(
             "zeta" => axes.push(Axis::Zeta(zetas(src, &t)?)),
             "direction" => axes.push(Axis::Direction(directions(src, &t)?)),
             "variant" => axes.push(Axis::Variant((0..t.tables("variant")?.len()).collect())),
+            "backspan_ratio" => {
+                let v = numbers(src, &t, "backspan_ratio")?;
+                if let Some(bad) = v.iter().find(|r| !(**r > 0.0)) {
+                    return Err(t.err_at(
+                        "backspan_ratio",
+                        format!("a backspan-to-overhang ratio must be > 0, found {bad}; for an overhang alone drop the axis"),
+                    ));
+                }
+                axes.push(Axis::Backspan(v));
+            }
             "axis" => {
                 for loc in t.tables("axis")? {
                     let at = loc.tab(src);
@@ -295,12 +307,14 @@ fn parse_family(
             "a [solver] tolerance inside a family's case would be ignored: a sweep solves every case with --tolerance (default 1e-4)",
         ));
     }
+    let backspan = backspan(src, &t, &axes)?;
     let probe = Family {
         name: name.clone(),
         case: case.clone(),
         axes: axes.clone(),
         zeta_load: zeta_load.clone(),
         variants: Vec::new(),
+        backspan,
     };
     if probe.checked_size().is_none() {
         return Err(t.err_here("the grid of this family is too large to count: reduce the axes"));
@@ -311,7 +325,75 @@ fn parse_family(
         axes,
         zeta_load,
         variants,
+        backspan,
     })
+}
+
+/// `[family.backspan]`: the far-end support (`far_end`, a preset name, or a
+/// table with `preset` and component overrides "fixed" / "free") and
+/// `loads` ("none" or "continue"). Needed by, and only with, a
+/// `backspan_ratio` axis.
+fn backspan(
+    src: &Source<'_>,
+    t: &Tab<'_>,
+    axes: &[Axis],
+) -> Result<Option<super::Backspan>, CaseError> {
+    use crate::model::backspan::BackspanLoads;
+    use crate::model::{Component, Fixity, Support};
+    let has_axis = axes.iter().any(|a| matches!(a, Axis::Backspan(_)));
+    let table = t.table("backspan")?;
+    let Some(loc) = table else {
+        return Ok(has_axis.then_some(super::Backspan {
+            far: Support::FORK,
+            loads: BackspanLoads::None,
+        }));
+    };
+    let bt = loc.tab(src);
+    if !has_axis {
+        return Err(bt.err_here(
+            "a [family.backspan] table needs a `backspan_ratio` axis (backspan length / overhang length), for example backspan_ratio = [0.5, 1.0, 2.0]",
+        ));
+    }
+    bt.check_keys(&["far_end", "loads"], &|_| None)?;
+    const PRESETS: &[&str] = &["fork", "built-in", "free"];
+    let preset = |p: &str| match p {
+        "fork" => Support::FORK,
+        "built-in" => Support::BUILT_IN,
+        _ => Support::FREE,
+    };
+    let far = match bt.get("far_end") {
+        None => Support::FORK,
+        Some(v) if matches!(v.v, DeValue::String(_)) => preset(
+            bt.choice("far_end", PRESETS, "support preset")?
+                .expect("present")
+                .0,
+        ),
+        Some(_) => {
+            let floc = bt.table("far_end")?.expect("a table");
+            let ft = floc.tab(src);
+            let mut keys = vec!["preset"];
+            keys.extend(Component::ALL.map(Component::key));
+            ft.check_keys(&keys, &|_| None)?;
+            let mut s = ft
+                .choice("preset", PRESETS, "support preset")?
+                .map_or(Support::FORK, |(p, _)| preset(p));
+            for c in Component::ALL {
+                if let Some((f, _)) = ft.choice(c.key(), &["fixed", "free"], "fixity")? {
+                    *s.component_mut(c) = if f == "fixed" {
+                        Fixity::Fixed
+                    } else {
+                        Fixity::Free
+                    };
+                }
+            }
+            s
+        }
+    };
+    let loads = match bt.choice("loads", &["none", "continue"], "backspan load option")? {
+        Some(("continue", _)) => BackspanLoads::Continue,
+        _ => BackspanLoads::None,
+    };
+    Ok(Some(super::Backspan { far, loads }))
 }
 
 /// A list of numbers, or a range table { from, to, count, spacing }.
