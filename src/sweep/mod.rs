@@ -11,6 +11,7 @@
 
 pub mod cache;
 pub mod path;
+mod physical;
 pub mod run;
 pub mod spec;
 mod variant;
@@ -53,6 +54,14 @@ pub enum Axis {
     Variant(Vec<usize>),
     /// Backspan-to-overhang length ratios (with [`Family::backspan`]).
     Backspan(Vec<f64>),
+    /// A physical axis (`section`, `length` or `height`): values patched
+    /// into a physical base case, resolved into [`Family::patched`].
+    Case {
+        /// Column name: "section", "length" or "height".
+        column: &'static str,
+        /// The values as written (sections by their label).
+        labels: Vec<String>,
+    },
     /// Any numeric field of the case, by path (see [`path`]).
     Path {
         /// The path as written (the CSV column name).
@@ -84,6 +93,7 @@ impl Axis {
             Axis::Direction(_) => "direction",
             Axis::Variant(_) => "variant",
             Axis::Backspan(_) => "backspan_ratio",
+            Axis::Case { column, .. } => column,
             Axis::Path { name, .. } => name,
         }
     }
@@ -94,6 +104,7 @@ impl Axis {
             Axis::Direction(v) => v.len(),
             Axis::Variant(v) => v.len(),
             Axis::Backspan(v) => v.len(),
+            Axis::Case { labels, .. } => labels.len(),
             Axis::Path { values, .. } => values.len(),
         }
     }
@@ -115,6 +126,10 @@ pub struct Family {
     /// The backspan in front of the case (with a `backspan_ratio` axis):
     /// the case is the overhang and stays the reference length.
     pub backspan: Option<Backspan>,
+    /// With physical axes: the resolved case of every combination of the
+    /// variant (or the base case) and the physical axes' values, indexed by
+    /// `variant · P + combination` (combination in axis order, last fastest).
+    pub patched: Vec<ResolvedCase>,
 }
 
 /// A backspan in front of an overhang case (see [`crate::model::backspan`]).
@@ -141,6 +156,10 @@ pub struct Point {
     pub paths: Vec<f64>,
     /// Backspan-to-overhang ratio (None without a backspan axis).
     pub backspan: Option<f64>,
+    /// Mcr in kN·m per unit of μcr (physical cases only).
+    pub mcr_scale: Option<f64>,
+    /// (column, value) of the physical axes, in axis order.
+    pub case_labels: Vec<(&'static str, String)>,
     /// The member to solve (with a backspan: the whole beam).
     pub member: Member,
 }
@@ -186,6 +205,33 @@ impl Family {
             .try_fold(1usize, |a, x| a.checked_mul(x.len()))
     }
 
+    /// Index into [`Family::patched`] of axis indices `idx`.
+    fn patched_index(&self, idx: &[usize]) -> usize {
+        let mut vi = 0;
+        let mut comb = 0;
+        for (a, &ix) in self.axes.iter().zip(idx) {
+            match a {
+                Axis::Variant(v) => vi = v[ix],
+                Axis::Case { labels, .. } => comb = comb * labels.len() + ix,
+                _ => {}
+            }
+        }
+        let p: usize = self
+            .axes
+            .iter()
+            .map(|a| match a {
+                Axis::Case { labels, .. } => labels.len(),
+                _ => 1,
+            })
+            .product();
+        vi * p + comb
+    }
+
+    /// True when the family's cases are physical (Mcr in kN·m is written).
+    pub fn is_physical(&self) -> bool {
+        matches!(self.case.kind, crate::case::CaseKind::Physical(_))
+    }
+
     /// The point with linear index `i` (last axis fastest).
     pub fn point(&self, i: usize) -> Point {
         let mut idx = vec![0; self.axes.len()];
@@ -210,7 +256,11 @@ impl Family {
                 variant = Some(&self.variants[v[ix]]);
             }
         }
-        let case = variant.map_or(&self.case, |v| &v.case);
+        let case = if self.patched.is_empty() {
+            variant.map_or(&self.case, |v| &v.case)
+        } else {
+            &self.patched[self.patched_index(idx)]
+        };
         let mut m = case.member.clone();
         let mut direction = Direction::Down;
         let mut zeta_value: Option<AxisValue> = None;
@@ -219,7 +269,7 @@ impl Family {
                 Axis::Kappa(v) => m.kappa = v[ix],
                 Axis::Zeta(v) => zeta_value = Some(zeta.map_or(v[ix], AxisValue::Num)),
                 Axis::Direction(v) => direction = v[ix],
-                Axis::Variant(_) | Axis::Backspan(_) | Axis::Path { .. } => {}
+                Axis::Variant(_) | Axis::Backspan(_) | Axis::Case { .. } | Axis::Path { .. } => {}
             }
         }
         if let Some(k) = kappa {
@@ -310,6 +360,17 @@ impl Family {
             direction,
             variant: variant.map(|v| v.name.clone()),
             backspan,
+            mcr_scale: matches!(case.kind, crate::case::CaseKind::Physical(_))
+                .then_some(case.scales.moment),
+            case_labels: self
+                .axes
+                .iter()
+                .zip(idx)
+                .filter_map(|(a, &ix)| match a {
+                    Axis::Case { column, labels } => Some((*column, labels[ix].clone())),
+                    _ => None,
+                })
+                .collect(),
             paths: self
                 .axes
                 .iter()
@@ -379,8 +440,14 @@ pub fn header(f: &Family) -> Vec<String> {
         }
     }
     h.extend(RESULT_COLUMNS.map(String::from));
+    if f.is_physical() {
+        h.push(MCR_COLUMN.to_string());
+    }
     h
 }
+
+/// Extra result column of physical families: Mcr in kN·m.
+pub const MCR_COLUMN: &str = "mcr_knm";
 
 /// A number as CSV text: shortest round-trip form, −0 as 0.
 pub fn fmt_num(x: f64) -> String {
@@ -447,6 +514,14 @@ pub fn preamble(w: &mut dyn Write, f: &Family, spec_hash: &str, tolerance: f64) 
          mu_ratio = mu_cr/(pi*sqrt(1+kappa^2)) (equals C1 only with forks and zeta = 0); le_over_l = length ratio giving the same Mcr \
          in the uniform-moment fork formula; load_factor dimensionless; error_estimate relative; elements count"
     )?;
+    if f.is_physical() {
+        writeln!(
+            w,
+            "# physical family: kappa and zeta are derived from each case's section, length, material and load heights \
+             (E and G of the case's [material], default 210000 and 81000 MPa); mcr_knm = Mcr in kN*m; section, length and \
+             height columns hold the values as written in the spec"
+        )?;
+    }
     if let Some(b) = &f.backspan {
         writeln!(
             w,
@@ -489,6 +564,13 @@ pub fn write_row(
             .into(),
             "variant" => p.variant.clone().unwrap_or_default(),
             "backspan_ratio" => opt(p.backspan),
+            MCR_COLUMN => opt(r.mu_cr.zip(p.mcr_scale).map(|(m, s)| m * s)),
+            "section" | "length" | "height" => p
+                .case_labels
+                .iter()
+                .find(|(col, _)| *col == c)
+                .map(|(_, v)| v.clone())
+                .unwrap_or_default(),
             "mu_cr" => opt(r.mu_cr),
             "mu_ratio" => opt(r.mu_cr.map(|m| m / r.mu0)),
             "le_over_l" => opt(r.mu_cr.map(|m| le_over_l(m, p.kappa))),
@@ -511,6 +593,8 @@ pub struct Cell {
     pub error_estimate: Option<f64>,
     /// True when the status is "ok".
     pub ok: bool,
+    /// Mcr in kN·m (physical cases).
+    pub mcr: Option<f64>,
 }
 
 impl From<&Row> for Cell {
@@ -519,6 +603,7 @@ impl From<&Row> for Cell {
             mu_cr: r.mu_cr,
             error_estimate: r.error_estimate,
             ok: r.status == "ok",
+            mcr: r.mu_cr.zip(r.point.mcr_scale).map(|(m, s)| m * s),
         }
     }
 }
@@ -560,6 +645,7 @@ fn axis_label(a: &Axis, i: usize, f: &Family) -> String {
         Axis::Direction(v) => if v[i] == Direction::Up { "up" } else { "down" }.into(),
         Axis::Variant(v) => f.variants[v[i]].name.clone(),
         Axis::Backspan(v) => fmt_num(v[i]),
+        Axis::Case { labels, .. } => labels[i].clone(),
         Axis::Path { values, .. } => fmt_num(values[i]),
     }
 }
@@ -662,11 +748,110 @@ pub fn combination_of(f: &Family, i: usize) -> String {
     }
 }
 
+/// Print tables of a physical family with a `length` axis: Mcr (kN·m) with
+/// the length down and the load height across (one column without a height
+/// axis), one table per combination of the other axes, rounded down like the
+/// dimensionless tables.
+fn physical_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, Vec<u8>)> {
+    let find = |c: &str| {
+        f.axes
+            .iter()
+            .position(|a| matches!(a, Axis::Case { column, .. } if *column == c))
+    };
+    let Some(la) = find("length") else {
+        return Vec::new();
+    };
+    let ha = find("height");
+    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
+    let index = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
+    let others: Vec<usize> = (0..f.axes.len())
+        .filter(|&a| a != la && Some(a) != ha)
+        .collect();
+    let count: usize = others.iter().map(|&a| lens[a]).product();
+    let mut out = Vec::new();
+    for c in 0..count {
+        let mut idx = vec![0; f.axes.len()];
+        let mut r = c;
+        for &a in others.iter().rev() {
+            idx[a] = r % lens[a];
+            r /= lens[a];
+        }
+        let labels: Vec<(String, String)> = others
+            .iter()
+            .map(|&a| {
+                (
+                    f.axes[a].column().to_string(),
+                    axis_label(&f.axes[a], idx[a], f),
+                )
+            })
+            .collect();
+        let name = if labels.is_empty() {
+            "all".to_string()
+        } else {
+            labels
+                .iter()
+                .map(|(_, v)| safe_name(v))
+                .collect::<Vec<_>>()
+                .join("_")
+        };
+        let mut b: Vec<u8> = Vec::new();
+        let _ = writeln!(b, "# {}", crate::CAUTION);
+        let _ = writeln!(
+            b,
+            "# family {} ({}); ltb-atlas {}; spec sha256 {spec_hash}",
+            f.name,
+            if labels.is_empty() {
+                "all cases".to_string()
+            } else {
+                labels
+                    .iter()
+                    .map(|(k, v)| format!("{k} = {v}"))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            },
+            env!("CARGO_PKG_VERSION")
+        );
+        let _ = writeln!(b, "# {}", CAVEATS);
+        let _ = writeln!(
+            b,
+            "# Mcr in kN·m (the largest |M| at the elastic critical load), length down, load height across; values rounded \
+             down to the digits their error estimate supports"
+        );
+        let mut header = vec!["length".to_string()];
+        match ha {
+            Some(h) => header
+                .extend((0..lens[h]).map(|i| format!("height={}", axis_label(&f.axes[h], i, f)))),
+            None => header.push(MCR_COLUMN.to_string()),
+        }
+        let _ = writeln!(b, "{}", header.join(","));
+        for li in 0..lens[la] {
+            idx[la] = li;
+            let mut line = vec![axis_label(&f.axes[la], li, f)];
+            for hi in 0..ha.map_or(1, |h| lens[h]) {
+                if let Some(h) = ha {
+                    idx[h] = hi;
+                }
+                let cell = &cells[index(&idx)];
+                line.push(match (cell.ok, cell.mcr, cell.error_estimate) {
+                    (true, Some(m), Some(e)) => round_down(m, e),
+                    _ => "not-ok".into(),
+                });
+            }
+            let _ = writeln!(b, "{}", line.join(","));
+        }
+        out.push((format!("{}.{name}.table.csv", f.name), b));
+    }
+    out
+}
+
 /// Wide print tables of a family with both a κ and a ζ axis: μcr with κ
 /// down and ζ across, one table per combination of the other axes (in spec
 /// order), values rounded down to the digits their error estimate supports;
 /// a case that did not end "ok" shows its status. Returns (file name, bytes).
 pub fn print_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, Vec<u8>)> {
+    if f.is_physical() {
+        return physical_tables(f, cells, spec_hash);
+    }
     let ka = f.axes.iter().position(|a| matches!(a, Axis::Kappa(_)));
     let za = f.axes.iter().position(|a| matches!(a, Axis::Zeta(_)));
     let (Some(ka), Some(za)) = (ka, za) else {

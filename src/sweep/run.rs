@@ -543,6 +543,7 @@ pub fn merge(spec: &Spec, spec_hash: &str, dir: &Path) -> Result<Summary, SweepE
             let hdr: Vec<String> = header(f);
             let col = |c: &str| hdr.iter().position(|h| h == c).expect("contract column");
             let (mu, est, st) = (col("mu_cr"), col("error_estimate"), col("status"));
+            let mcr = hdr.iter().position(|h| h == super::MCR_COLUMN);
             let mut rows = 0;
             for l in lines {
                 text.push_str(l);
@@ -563,6 +564,7 @@ pub fn merge(spec: &Spec, spec_hash: &str, dir: &Path) -> Result<Summary, SweepE
                     mu_cr: rec.get(mu).and_then(|x| x.parse().ok()),
                     error_estimate: rec.get(est).and_then(|x| x.parse().ok()),
                     ok,
+                    mcr: mcr.and_then(|c| rec.get(c)).and_then(|x| x.parse().ok()),
                 });
                 rows += 1;
             }

@@ -33,6 +33,9 @@ const FAMILY_KEYS: &[&str] = &[
     "axis",
     "backspan_ratio",
     "backspan",
+    "section",
+    "length",
+    "height",
     // Read by later stages from the same spec text (each parses its own
     // key with located errors): fits, rule checks, charts, resistance.
     "fit",
@@ -183,6 +186,7 @@ fn parse_family(
             "zeta" => axes.push(Axis::Zeta(zetas(src, &t)?)),
             "direction" => axes.push(Axis::Direction(directions(src, &t)?)),
             "variant" => axes.push(Axis::Variant((0..t.tables("variant")?.len()).collect())),
+            k @ ("section" | "length" | "height") => axes.push(super::physical::axis(src, &t, k)?),
             "backspan_ratio" => {
                 let v = numbers(src, &t, "backspan_ratio")?;
                 if let Some(bad) = v.iter().find(|r| !(**r > 0.0)) {
@@ -268,9 +272,53 @@ fn parse_family(
     if axes.iter().any(|a| matches!(a, Axis::Kappa(_)))
         && !matches!(case.kind, crate::case::CaseKind::Dimensionless)
     {
-        return Err(t.err_at("kappa", "a κ axis needs a dimensionless base case (top-level `kappa`); physical sweeps take sections and lengths"));
+        return Err(t.err_at("kappa", "a κ axis needs a dimensionless base case (top-level `kappa`); a physical family derives κ and ζ from its `section`, `length` and `height` axes"));
     }
-    let variants = super::variant::variants(src, &t, &case)?;
+    let has_case_axes = axes.iter().any(|a| matches!(a, Axis::Case { .. }));
+    let mut patched = Vec::new();
+    let base_loc = t.table("case")?;
+    if has_case_axes {
+        if base_loc.is_none() {
+            return Err(t.err_at(
+                "case",
+                "physical axes (section, length, height) need the base case inline as [family.case], not as a file",
+            ));
+        }
+        for k in ["kappa", "zeta"] {
+            if t.get(k).is_some() {
+                return Err(t.err_at(
+                    k,
+                    format!("a family with physical axes derives κ and ζ from sections, lengths and heights; drop `{k}` (heights go on the `height` axis)"),
+                ));
+            }
+        }
+    }
+    let (case_path, case_span) = base_loc
+        .as_ref()
+        .map(|l| (l.path.clone(), l.span.clone()))
+        .unwrap_or_default();
+    let zl = zeta_load.clone();
+    let mut patch = |table: &DeTable<'_>| -> Result<(), CaseError> {
+        if has_case_axes {
+            super::physical::patched(
+                src,
+                &t,
+                table,
+                &axes,
+                zl.as_deref(),
+                &case_path,
+                case_span.clone(),
+                &mut patched,
+            )?;
+        }
+        Ok(())
+    };
+    let variants = super::variant::variants(src, &t, &case, &mut patch)?;
+    if variants.is_empty()
+        && let Some(l) = &base_loc
+    {
+        patch(l.t)?;
+    }
     // Checks that need the whole family.
     for e in &entries {
         match e.name.as_str() {
@@ -315,6 +363,7 @@ fn parse_family(
         zeta_load: zeta_load.clone(),
         variants: Vec::new(),
         backspan,
+        patched: Vec::new(),
     };
     if probe.checked_size().is_none() {
         return Err(t.err_here("the grid of this family is too large to count: reduce the axes"));
@@ -326,6 +375,7 @@ fn parse_family(
         zeta_load,
         variants,
         backspan,
+        patched,
     })
 }
 

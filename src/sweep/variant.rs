@@ -32,11 +32,14 @@ fn find<'a>(t: &DeTable<'a>, key: &str) -> Option<Spanned<std::borrow::Cow<'a, s
         .map(|(k, _)| k.clone())
 }
 
-/// Read and resolve the variants of family table `t` whose base case is `base`.
+/// Read and resolve the variants of family table `t` whose base case is
+/// `base`; `each` sees every variant's merged case table, in order (for
+/// axes that patch it further).
 pub(crate) fn variants(
     src: &Source<'_>,
     t: &Tab<'_>,
     base: &ResolvedCase,
+    each: &mut dyn FnMut(&DeTable<'_>) -> Result<(), CaseError>,
 ) -> Result<Vec<Variant>, CaseError> {
     let locs = t.tables("variant")?;
     if locs.is_empty() {
@@ -152,6 +155,7 @@ pub(crate) fn variants(
         }
         let case =
             crate::case::resolve_table(src, &merged, &loc.path, loc.span.clone(), kappa_default)?;
+        each(&merged)?;
         out.push(Variant {
             name,
             case,
