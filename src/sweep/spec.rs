@@ -276,7 +276,10 @@ fn parse_family(
     }
     let has_case_axes = axes.iter().any(|a| matches!(a, Axis::Case { .. }));
     let mut patched = Vec::new();
-    let base_loc = t.table("case")?;
+    let base_loc = match t.get("case") {
+        Some(v) if matches!(v.v, DeValue::Table(_)) => t.table("case")?,
+        _ => None,
+    };
     if has_case_axes {
         if base_loc.is_none() {
             return Err(t.err_at(
