@@ -97,7 +97,13 @@ impl Axis {
             Axis::Path { name, .. } => name,
         }
     }
-    fn len(&self) -> usize {
+    /// True when the axis has no value (never for a parsed spec).
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// Number of values on the axis.
+    pub fn len(&self) -> usize {
         match self {
             Axis::Kappa(v) => v.len(),
             Axis::Zeta(v) => v.len(),
@@ -165,6 +171,22 @@ pub struct Point {
 }
 
 impl Point {
+    /// A point that is just `member` (no family axes): κ from the member, ζ
+    /// none, loads as given.
+    pub fn of_member(member: Member) -> Point {
+        Point {
+            kappa: member.kappa,
+            zeta: None,
+            direction: Direction::Down,
+            variant: None,
+            paths: Vec::new(),
+            backspan: None,
+            mcr_scale: None,
+            case_labels: Vec::new(),
+            member,
+        }
+    }
+
     /// Factor from the solved member's μ to the point's reference length
     /// (the overhang with a backspan; else 1).
     pub fn mu_scale(&self) -> f64 {
