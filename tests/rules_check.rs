@@ -29,7 +29,7 @@ fn check(dir: &Path, spec: &str, out: &str, extra: &[&str]) -> Output {
     let o = dir.join(out);
     let cache = dir.join("cache");
     let mut args = vec!["check", p.to_str().unwrap(), "--out", o.to_str().unwrap()];
-    if !extra.iter().any(|a| *a == "--no-cache") {
+    if !extra.contains(&"--no-cache") {
         args.extend_from_slice(&["--cache", cache.to_str().unwrap()]);
     }
     args.extend_from_slice(extra);

@@ -66,6 +66,8 @@ pub enum Outcome {
 }
 
 /// A rule ready to evaluate.
+// A handful of rules per run: the size difference of the variants does not matter.
+#[allow(clippy::large_enum_variant)]
 #[derive(Debug, Clone)]
 pub enum Rule {
     /// Three-factor formula with tabulated C1, C2 (NCCI SN003 or ENV Annex F).

@@ -97,6 +97,8 @@ impl Expr {
 }
 
 /// Where the values come from.
+// A handful of rules per spec: the size difference of the variants does not matter.
+#[allow(clippy::large_enum_variant)]
 #[derive(Debug, Clone)]
 pub enum Body {
     /// Three-factor form with C1 and (optionally) C2 expressions.

@@ -29,6 +29,9 @@ pub const FRONTIER_TARGET: f64 = 3e-4;
 /// Iterations of the root refinement per crossing.
 pub const FRONTIER_ITERATIONS: usize = 40;
 
+/// The largest ratio and where (κ, ζ).
+type MaxAt = Option<(f64, f64, Option<f64>)>;
+
 /// What the stage did.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct CheckSummary {
@@ -60,7 +63,7 @@ pub fn run_with_tolerance(
     opts: &Options,
     rule_tol: f64,
 ) -> Result<CheckSummary> {
-    if !(rule_tol >= 0.0 && rule_tol < 0.5) {
+    if !(0.0..0.5).contains(&rule_tol) {
         anyhow::bail!(
             "--rule-tolerance must lie between 0 and 0.5 (a relative margin), got {rule_tol}"
         );
@@ -119,10 +122,8 @@ pub fn run_with_tolerance(
             for combo in &combos {
                 let fr = frontier(f, combo, &rule, &rows, &cases, &settings, &pool, &mut cache)?;
                 summary.unrefined += fr.unrefined;
-                let (mut counts, mut max): (
-                    BTreeMap<&str, usize>,
-                    Option<(f64, f64, Option<f64>)>,
-                ) = (BTreeMap::new(), None);
+                let mut counts: BTreeMap<&str, usize> = BTreeMap::new();
+                let mut max: MaxAt = None;
                 for v in [
                     "conservative",
                     "unconservative",
