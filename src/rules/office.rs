@@ -20,6 +20,10 @@
 //! psi = [-1.0, 1.0]
 //! ```
 //!
+//! Expressions use exmex syntax: `+ - * / ^`, `sqrt`, `abs`, `min`, `max`, `exp`, `ln`, ...,
+//! the constants `PI` (or `π`) and `E` (Euler's number, not Young's modulus); any other name is
+//! refused with its location.
+//!
 //! ζ in an office rule is the load height on the destabilising side positive
 //! (the three-factor formula's convention); ψ is the ratio of the smaller to
 //! the larger end moment (+1 uniform moment) and exists only for end-moment

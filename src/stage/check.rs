@@ -201,6 +201,12 @@ pub fn run_with_tolerance(
         }
     }
     bar.finish_and_clear();
+    if summary.checks == 0 && !opts.quiet {
+        eprintln!(
+            "{}: no family lists `rules` (for example rules = [\"three-factor\", \"aisc-cb\"]): nothing to check",
+            ls.origin()
+        );
+    }
     let doc = json!({
         "caution": crate::CAUTION,
         "tolerance": rule_tol,
@@ -403,6 +409,16 @@ fn frontier_csv(
         b,
         "# rule {}: {}; edition {}; source: {}",
         info.name, info.clause, info.edition, info.source
+    )?;
+    writeln!(b, "# limits (not-applicable outside): {}", info.limits)?;
+    writeln!(
+        b,
+        "# values from memory: {}",
+        if info.memory.is_empty() {
+            "none"
+        } else {
+            &info.memory
+        }
     )?;
     writeln!(
         b,
