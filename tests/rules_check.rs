@@ -358,8 +358,43 @@ fn bad_rules_get_located_errors_and_no_output() {
         err.contains("unknown variable `lambda`") && err.contains("spec.toml:"),
         "{err}"
     );
+    // A table whose key column does not increase: the error names the table file and line.
+    std::fs::write(
+        dir.path().join("office-c1.csv"),
+        "kappa,c1,c2\n0.5,1.13,0.45\n0.5,1.14,0.45\n",
+    )
+    .unwrap();
+    let o = check(dir.path(), UNIFORM, "out", &[]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        err.contains("office-c1.csv:3: `kappa` values must increase"),
+        "{err}"
+    );
+    std::fs::write(dir.path().join("office-c1.csv"), OFFICE_TABLE).unwrap();
     let bad = UNIFORM.replace("source = \"Invented office sheet A (test data)\"\n", "");
     let o = check(dir.path(), &bad, "out", &[]);
     assert_eq!(o.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&o.stderr).contains("missing `source`"));
+}
+
+#[test]
+fn the_demo_rule_check_runs() {
+    // The spec shipped in templates/ (invented office rules) stays valid.
+    let dir = tempfile::tempdir().unwrap();
+    let spec = Path::new(env!("CARGO_MANIFEST_DIR")).join("templates/sweeps/rule-check.toml");
+    let out = dir.path().join("out");
+    let o = run(&[
+        "check",
+        spec.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--no-cache",
+        "--quiet",
+    ]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let s: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("rules-summary.json")).unwrap())
+            .unwrap();
+    assert_eq!(s["entries"].as_array().unwrap().len(), 14);
 }
