@@ -97,6 +97,9 @@ enum Command {
         /// A rule is unconservative where Mcr(rule)/Mcr(FE) > 1 + this (default 0.001).
         #[arg(long, value_name = "X")]
         rule_tolerance: Option<f64>,
+        /// Run grids larger than the size threshold without asking.
+        #[arg(long)]
+        yes: bool,
     },
     /// Combine the shards of a sharded sweep into the files an unsharded run writes.
     Merge {
@@ -151,8 +154,9 @@ fn run(cli: Cli) -> Result<ExitCode> {
             cache,
             no_cache,
             rule_tolerance,
+            yes,
         } => {
-            let opts = stage_options(jobs, tolerance, quiet, true, cache, no_cache);
+            let opts = stage_options(jobs, tolerance, quiet, yes, cache, no_cache);
             check_cmd(&spec, &out, &opts, rule_tolerance)
         }
     }

@@ -83,6 +83,13 @@ pub fn run_with_tolerance(
         .filter(|(_, l)| !l.is_empty())
         .map(|(f, _)| f.size())
         .sum();
+    if total > super::CONFIRM && !opts.yes {
+        anyhow::bail!(
+            "{}: the families with `rules` hold {total} cases (above {}); rerun with --yes to go ahead",
+            ls.origin(),
+            super::CONFIRM
+        );
+    }
     let bar = progress_bar(total as u64, opts.quiet);
     let plain = !opts.quiet && bar.is_hidden();
     for (f, names) in ls.spec.families.iter().zip(&lists) {
