@@ -7,7 +7,7 @@
 //!   clause, edition, source, limits, values from memory, tolerances), then
 //!   the axis columns, kappa, zeta, direction (if not an axis), mcr_ratio,
 //!   verdict, and the extras mu_rule, mu_cr, error_estimate, factors, reason;
-//! - `out/<family>.<rule>.frontier.csv`: [combination,] branch, kappa, zeta,
+//! - `out/<family>.<rule>.frontier.csv`: (combination,) branch, kappa, zeta,
 //!   mcr_ratio of the refined crossings, one polyline per branch;
 //! - `out/rules-summary.json`.
 
