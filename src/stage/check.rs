@@ -175,10 +175,14 @@ pub fn run_with_tolerance(
                         max.map(|m| format!("{:.4}", m.0))
                             .unwrap_or_else(|| "-".into()),
                         branches,
-                        if fr.unrefined > 0 {
-                            format!(" ({} crossing(s) not refined)", fr.unrefined)
-                        } else {
-                            String::new()
+                        match (fr.unrefined, fr.gaps) {
+                            (0, 0) => String::new(),
+                            (u, 0) => format!(" ({u} crossing(s) not refined)"),
+                            (0, g) =>
+                                format!(" ({g} sign change(s) across a gap of the rule's domain)"),
+                            (u, g) => format!(
+                                " ({u} crossing(s) not refined, {g} sign change(s) across a gap of the rule's domain)"
+                            ),
                         }
                     );
                 }
@@ -198,6 +202,7 @@ pub fn run_with_tolerance(
                     "counts": counts,
                     "frontier_branches": branches,
                     "frontier_unrefined": fr.unrefined,
+                    "frontier_gaps": fr.gaps,
                 }));
             }
             files.push((
@@ -429,7 +434,7 @@ fn frontier_csv(
     )?;
     writeln!(
         b,
-        "# frontier of family {} where Mcr(rule)/Mcr(FE) = 1, each point found by solving with the engine between grid points (|mcr_ratio - 1| <= {} when re-solved), never interpolated; points of one branch form a polyline in order; rule tolerance {}",
+        "# frontier of family {} where Mcr(rule)/Mcr(FE) = 1, each point found by solving with the engine between grid points (|mcr_ratio - 1| <= {} when re-solved), never interpolated; points of one branch form a polyline in order; sign changes across a gap of the rule's domain (no value between the grid points) are no crossing and left out; rule tolerance {}",
         f.name,
         fmt_num(FRONTIER_TARGET),
         fmt_num(rule_tol)
@@ -465,6 +470,8 @@ struct Frontier {
     /// Polylines of (kappa, zeta, ratio).
     lines: Vec<Vec<(f64, Option<f64>, f64)>>,
     unrefined: usize,
+    /// Sign changes across a gap of the rule's domain (no crossing).
+    gaps: usize,
 }
 
 #[allow(clippy::too_many_arguments)]
@@ -511,7 +518,28 @@ fn frontier(
     };
     let flat = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
     let g = |i: usize, j: usize| cases[flat(&idx_of(i, j))].ratio.map(|r| r - 1.0);
-    let edges = compare::sign_changes(ni, nj, &g);
+    // A sign change across a gap of the rule's domain (for example AS 4100
+    // between the shear centre and the top flange, where it defines no kl) is
+    // no crossing of r = 1: edges whose midpoint the rule does not cover are
+    // left out (counted as gaps). The rule alone decides; no solve needed.
+    let mid = |e: &Edge| {
+        let idx = idx_of(e.i, e.j);
+        let (i2, j2) = if e.dir == 0 {
+            (e.i + 1, e.j)
+        } else {
+            (e.i, e.j + 1)
+        };
+        let (a, b) = (&rows[flat(&idx)], &rows[flat(&idx_of(i2, j2))]);
+        if e.dir == 0 {
+            f.point_at(&idx, Some(0.5 * (a.point.kappa + b.point.kappa)), None)
+        } else {
+            let z = 0.5 * (a.point.zeta.unwrap_or(0.0) + b.point.zeta.unwrap_or(0.0));
+            f.point_at(&idx, None, Some(z))
+        }
+    };
+    let (edges, gaps): (Vec<Edge>, Vec<Edge>) = compare::sign_changes(ni, nj, &g)
+        .into_iter()
+        .partition(|e| matches!(rule.evaluate(&mid(e).member), Outcome::Applies { .. }));
     // Brackets in lockstep: one engine solve per open crossing per iteration.
     let param = |e: &Edge, end: usize| {
         let (i, j) = if e.dir == 0 {
@@ -594,5 +622,9 @@ fn frontier(
         .into_iter()
         .map(|l| l.iter().map(|e| found[e]).collect())
         .collect();
-    Ok(Frontier { lines, unrefined })
+    Ok(Frontier {
+        lines,
+        unrefined,
+        gaps: gaps.len(),
+    })
 }
