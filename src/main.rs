@@ -72,6 +72,35 @@ enum Command {
         #[arg(long, value_name = "K/N")]
         shard: Option<String>,
     },
+    /// Check simplified code rules against the engine over each family's grid (families with `rules`).
+    Check {
+        /// Sweep spec (TOML) whose families list `rules`.
+        spec: PathBuf,
+        /// Output folder (created if needed).
+        #[arg(long)]
+        out: PathBuf,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+        /// Relative error target of every solve (default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+        /// Print nothing but errors.
+        #[arg(long)]
+        quiet: bool,
+        /// Result cache folder (default as for `sweep`).
+        #[arg(long, value_name = "DIR")]
+        cache: Option<PathBuf>,
+        /// Solve every case afresh, neither reading nor writing the cache.
+        #[arg(long, conflicts_with = "cache")]
+        no_cache: bool,
+        /// A rule is unconservative where Mcr(rule)/Mcr(FE) > 1 + this (default 0.001).
+        #[arg(long, value_name = "X")]
+        rule_tolerance: Option<f64>,
+        /// Run grids larger than the size threshold without asking.
+        #[arg(long)]
+        yes: bool,
+    },
     /// Combine the shards of a sharded sweep into the files an unsharded run writes.
     Merge {
         /// The sweep spec the shards were run from.
@@ -116,6 +145,20 @@ fn run(cli: Cli) -> Result<ExitCode> {
             &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
         ),
         Command::Merge { spec, out } => merge_cmd(&spec, &out),
+        Command::Check {
+            spec,
+            out,
+            jobs,
+            tolerance,
+            quiet,
+            cache,
+            no_cache,
+            rule_tolerance,
+            yes,
+        } => {
+            let opts = stage_options(jobs, tolerance, quiet, yes, cache, no_cache);
+            check_cmd(&spec, &out, &opts, rule_tolerance)
+        }
     }
 }
 
@@ -266,6 +309,31 @@ fn stage_options(
             (false, None) => stage::CacheChoice::Default,
         },
     }
+}
+
+fn check_cmd(
+    spec_path: &Path,
+    out: &Path,
+    opts: &stage::Options,
+    rule_tolerance: Option<f64>,
+) -> Result<ExitCode> {
+    let ls = stage::load_spec(spec_path)?;
+    let tol = rule_tolerance.unwrap_or(ltb_atlas::rules::compare::DEFAULT_TOLERANCE);
+    let s = stage::check::run_with_tolerance(&ls, out, opts, tol)?;
+    if !opts.quiet {
+        eprintln!(
+            "{} rule checks, {} cases without an FE result, {} frontier crossings not refined; files in {}",
+            s.checks,
+            s.failed,
+            s.unrefined,
+            out.display()
+        );
+    }
+    Ok(if s.failed > 0 {
+        ExitCode::from(1)
+    } else {
+        ExitCode::SUCCESS
+    })
 }
 
 fn merge_cmd(spec_path: &Path, out: &Path) -> Result<ExitCode> {
