@@ -498,13 +498,7 @@ fn frontier(
     let lens: Vec<usize> = f
         .axes
         .iter()
-        .map(|a| match a {
-            Axis::Kappa(v) => v.len(),
-            Axis::Zeta(v) => v.len(),
-            Axis::Direction(v) => v.len(),
-            Axis::Variant(v) => v.len(),
-            Axis::Path { values, .. } => values.len(),
-        })
+        .map(Axis::len)
         .collect();
     let idx_of = |i: usize, j: usize| {
         let mut idx = combo.index.clone();
