@@ -65,12 +65,35 @@ fn built_in_rows_match_their_published_properties() {
             let u = e.unit.mm();
             let (a_u, i_u, iw_u, w_u, model) = match e.unit {
                 // cm², cm⁴, dm⁶, cm³
-                Unit::Mm => (1e2, 1e4, 1e12, 1e3, [0.002, 0.002, 0.002, 0.02, 0.015, 0.002, 0.002]),
+                Unit::Mm => (
+                    1e2,
+                    1e4,
+                    1e12,
+                    1e3,
+                    [0.002, 0.002, 0.002, 0.02, 0.015, 0.002, 0.002],
+                ),
                 // in², in⁴, in⁶, in³
-                Unit::In => (u.powi(2), u.powi(4), u.powi(6), u.powi(3), [0.015, 0.015, 0.015, 0.05, 0.025, 0.015, 0.015]),
+                Unit::In => (
+                    u.powi(2),
+                    u.powi(4),
+                    u.powi(6),
+                    u.powi(3),
+                    [0.015, 0.015, 0.015, 0.05, 0.025, 0.015, 0.015],
+                ),
             };
-            let got = [p.area / a_u, p.iy / i_u, p.iz / i_u, p.it / i_u, p.iw / iw_u, m.wel_y / w_u, m.wpl_y / w_u];
-            for (k, c) in ["a", "iy", "iz", "it", "iw", "wel_y", "wpl_y"].iter().enumerate() {
+            let got = [
+                p.area / a_u,
+                p.iy / i_u,
+                p.iz / i_u,
+                p.it / i_u,
+                p.iw / iw_u,
+                m.wel_y / w_u,
+                m.wpl_y / w_u,
+            ];
+            for (k, c) in ["a", "iy", "iz", "it", "iw", "wel_y", "wpl_y"]
+                .iter()
+                .enumerate()
+            {
                 let s = f[col(c)];
                 if s.is_empty() {
                     continue;
@@ -105,7 +128,9 @@ fn every_row_names_its_source_and_series_are_present() {
     for e in &all {
         assert!(e.source.len() > 20, "{} has no source", e.name);
     }
-    for n in ["IPE 80", "IPE 600", "HEA 100", "HE 400 B", "HEB 300", "W18X50", "W21x44"] {
+    for n in [
+        "IPE 80", "IPE 600", "HEA 100", "HE 400 B", "HEB 300", "W18X50", "W21x44",
+    ] {
         ltb_atlas::resistance::catalogue::lookup(n, &[]).unwrap_or_else(|m| panic!("{n}: {m}"));
     }
 }
@@ -114,7 +139,8 @@ fn err(text: &str) -> String {
     parse(text, "mine.csv").unwrap_err().to_string()
 }
 
-const HEAD: &str = "name,kind,unit,h,b,tf,tw,r,b_top,tf_top,b_bottom,tf_bottom,fabrication,source\n";
+const HEAD: &str =
+    "name,kind,unit,h,b,tf,tw,r,b_top,tf_top,b_bottom,tf_bottom,fabrication,source\n";
 
 // A user catalogue: welded and monosymmetric rows parse; errors name the
 // file, line and column of the field (common practice, no source).
@@ -125,30 +151,52 @@ fn user_catalogue_rows_and_located_errors() {
     );
     let e = parse(&ok, "mine.csv").unwrap();
     assert_eq!(e.len(), 2);
-    assert!(matches!(e[0].shape, ltb_atlas::section::Shape::MonoI { .. }));
+    assert!(matches!(
+        e[0].shape,
+        ltb_atlas::section::Shape::MonoI { .. }
+    ));
     // A bad number: line 2, column of `tw` (the 7th field).
     let m = err(&format!("{HEAD}P1,i,mm,500,250,20,ten,0,,,,,welded,x\n"));
     assert!(m.starts_with("mine.csv:2:20:"), "{m}");
     assert!(m.contains("`tw` = `ten` is not a number"), "{m}");
     // Unknown column in the header.
     let m = err("name,kind,colour\n");
-    assert!(m.starts_with("mine.csv:1:11:") && m.contains("unknown column `colour`"), "{m}");
+    assert!(
+        m.starts_with("mine.csv:1:11:") && m.contains("unknown column `colour`"),
+        "{m}"
+    );
     // Unknown kind, at its column.
     let m = err(&format!("{HEAD}P1,t,mm,500,250,20,10,0,,,,,welded,x\n"));
-    assert!(m.starts_with("mine.csv:2:4:") && m.contains("kind `t`"), "{m}");
+    assert!(
+        m.starts_with("mine.csv:2:4:") && m.contains("kind `t`"),
+        "{m}"
+    );
     // Missing flange dimension of a mono-i row.
-    let m = err(&format!("{HEAD}G1,mono-i,mm,800,,,10,0,300,25,,20,welded,x\n"));
-    assert!(m.starts_with("mine.csv:2:") && m.contains("`b_bottom` is missing"), "{m}");
+    let m = err(&format!(
+        "{HEAD}G1,mono-i,mm,800,,,10,0,300,25,,20,welded,x\n"
+    ));
+    assert!(
+        m.starts_with("mine.csv:2:") && m.contains("`b_bottom` is missing"),
+        "{m}"
+    );
     // Dimensions the section rejects: flanges thicker than half the depth.
     let m = err(&format!("{HEAD}P1,i,mm,30,250,20,10,0,,,,,welded,x\n"));
     assert!(m.starts_with("mine.csv:2:") && m.contains("tf"), "{m}");
     // A duplicate under another spelling.
-    let m = err(&format!("{HEAD}HEA 300,i,mm,290,300,14,8.5,27,,,,,rolled,x\nHE 300 A,i,mm,290,300,14,8.5,27,,,,,rolled,x\n"));
-    assert!(m.starts_with("mine.csv:3:1:") && m.contains("line 2"), "{m}");
+    let m = err(&format!(
+        "{HEAD}HEA 300,i,mm,290,300,14,8.5,27,,,,,rolled,x\nHE 300 A,i,mm,290,300,14,8.5,27,,,,,rolled,x\n"
+    ));
+    assert!(
+        m.starts_with("mine.csv:3:1:") && m.contains("line 2"),
+        "{m}"
+    );
     // Empty source.
     let m = err(&format!("{HEAD}P1,i,mm,500,250,20,10,0,,,,,welded,\n"));
     assert!(m.contains("`source` is empty"), "{m}");
     // Wrong field count.
     let m = err(&format!("{HEAD}P1,i,mm\n"));
-    assert!(m.starts_with("mine.csv:2:0:") && m.contains("3 fields"), "{m}");
+    assert!(
+        m.starts_with("mine.csv:2:0:") && m.contains("3 fields"),
+        "{m}"
+    );
 }
