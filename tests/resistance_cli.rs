@@ -195,8 +195,7 @@ fn resistance_tables_are_complete_and_deterministic() {
     let s = String::from_utf8(fa[1].1.clone()).unwrap();
     let last = |x: &str| -> Vec<f64> {
         x.lines()
-            .filter(|l| l.starts_with("10,"))
-            .next()
+            .find(|l| l.starts_with("10,"))
             .unwrap()
             .split(',')
             .skip(1)

@@ -268,11 +268,11 @@ fn section_of(src: &Source<'_>, sloc: &TabLoc<'_>) -> Result<DesignSection, Case
     .map_err(|m| st.err_here(m))
 }
 
+/// A string with the byte span it came from.
+pub(crate) type Spanned = (String, std::ops::Range<usize>);
+
 /// A value that may be a list of strings: the strings with their spans.
-pub(crate) fn string_list(
-    t: &Tab<'_>,
-    k: &str,
-) -> Result<Option<Vec<(String, std::ops::Range<usize>)>>, CaseError> {
+pub(crate) fn string_list(t: &Tab<'_>, k: &str) -> Result<Option<Vec<Spanned>>, CaseError> {
     let Some(v) = t.get(k) else {
         return Ok(None);
     };

@@ -766,6 +766,9 @@ fn compact(t: &toml::Table) -> String {
     format!("({})", v.join(" "))
 }
 
+/// JSON fields (added to `solve --json`) and report lines of a `[design]` table.
+pub type SolveDesign = (serde_json::Map<String, serde_json::Value>, Vec<String>);
+
 /// For `solve`: the `[design]` result of a physical case, as JSON fields and
 /// report lines; None when the case has no `[design]` table.
 ///
@@ -777,7 +780,7 @@ pub fn solve_design(
     path: &Path,
     rc: &ResolvedCase,
     sol: &crate::solve::Solution,
-) -> Result<Option<(serde_json::Map<String, serde_json::Value>, Vec<String>)>> {
+) -> Result<Option<SolveDesign>> {
     let text =
         std::fs::read_to_string(path).with_context(|| format!("cannot read {}", path.display()))?;
     let origin = path.display().to_string();
