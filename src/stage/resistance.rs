@@ -455,7 +455,17 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
             member: rc.member.clone(),
         })
         .collect();
-    let rows = solve_points(points, &settings, &pool, &mut cache)?;
+    // In chunks, for the progress bar; every point is solved on its own, so
+    // the rows do not depend on the chunking.
+    let mut rows = Vec::with_capacity(points.len());
+    let mut rest = points;
+    while !rest.is_empty() {
+        let tail = rest.split_off(rest.len().min(64));
+        let n = rest.len() as u64;
+        rows.extend(solve_points(rest, &settings, &pool, &mut cache)?);
+        bar.inc(n);
+        rest = tail;
+    }
     bar.finish_and_clear();
     let mut cells = Vec::new();
     for ((ci, hi, si, li, rc), row) in cases.iter().zip(rows.iter()) {
@@ -510,7 +520,40 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
     }
     // Order: case, grade, height, section, length.
     cells.sort_by_key(|c| (c.case, c.grade, c.height, c.section, c.length));
-    let files = write_tables(&rq, &dsecs, &cells, ls)?;
+    // E and G of each load case (from its [material]; the same for every section and length).
+    let materials: Vec<(f64, f64)> = (0..rq.cases.len())
+        .map(|ci| {
+            cases
+                .iter()
+                .find(|x| x.0 == ci)
+                .and_then(|x| match &x.4.kind {
+                    CaseKind::Physical(p) => Some((p.e, p.g)),
+                    CaseKind::Dimensionless => None,
+                })
+                .unwrap_or((f64::NAN, f64::NAN))
+        })
+        .collect();
+    // A cantilever's root warping condition (domain notes: stated with every result).
+    let roots: Vec<String> = (0..rq.cases.len())
+        .map(|ci| {
+            cases
+                .iter()
+                .find(|x| x.0 == ci)
+                .and_then(|x| crate::report::root_warping(&x.4.member))
+                .map(|(end, w)| {
+                    let state = if w.is_fixed() {
+                        "fixed"
+                    } else if w.is_free() {
+                        "free"
+                    } else {
+                        "sprung"
+                    };
+                    format!("; cantilever root ({end}) warping {state}")
+                })
+                .unwrap_or_default()
+        })
+        .collect();
+    let files = write_tables(&rq, &dsecs, &cells, ls, &materials, &roots)?;
     for (name, bytes) in &files {
         write_atomic(&out.join(name), bytes)?;
     }
@@ -540,6 +583,8 @@ fn write_tables(
     dsecs: &[DesignSection],
     cells: &[Cell],
     ls: &LoadedSpec,
+    materials: &[(f64, f64)],
+    roots: &[String],
 ) -> Result<Vec<(String, Vec<u8>)>> {
     let mut files = Vec::new();
     // Preamble shared by every file.
@@ -592,9 +637,17 @@ fn write_tables(
         "# unbraced length Lb = {} × L (AISC F2 only; EN 1993-1-1 uses Mcr alone)",
         fmt_num(rq.table.lb_over_l)
     )?;
-    for c in &rq.cases {
-        // The member description of the first built case of this template.
-        writeln!(pre, "# load case {}: {}", c.name, template_summary(c))?;
+    for (k, c) in rq.cases.iter().enumerate() {
+        let (e, g) = materials.get(k).copied().unwrap_or((f64::NAN, f64::NAN));
+        writeln!(
+            pre,
+            "# load case {}: {}{}; E = {} MPa, G = {} MPa (Mcr and, for AISC, Lp, Lr and Eq. F2-4)",
+            c.name,
+            template_summary(c),
+            roots.get(k).cloned().unwrap_or_default(),
+            num(e, 0),
+            num(g, 0)
+        )?;
     }
     writeln!(
         pre,
