@@ -393,6 +393,13 @@ fn floor_sig(x: f64) -> String {
     format!("{:.*}", dec as usize, v)
 }
 
+/// A length in m for tables: at most 4 decimals, trailing zeros dropped
+/// (lengths given in ft or in are not exact in m).
+fn len_str(l: f64) -> String {
+    let s = format!("{l:.4}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
 fn num(x: f64, digits: usize) -> String {
     if !x.is_finite() {
         return String::new();
@@ -721,7 +728,7 @@ fn write_tables(
                 .clone()
                 .unwrap_or_else(|| "as-given".into()),
             rq.sections[c.section].name,
-            fmt_num(rq.lengths[c.length]),
+            len_str(rq.lengths[c.length]),
             num(c.lb, 4),
             c.status,
             c.note.replace('"', "'")
@@ -748,7 +755,7 @@ fn write_tables(
                 }
                 writeln!(p)?;
                 for (li, l) in rq.lengths.iter().enumerate() {
-                    write!(p, "{}", fmt_num(*l))?;
+                    write!(p, "{}", len_str(*l))?;
                     for si in 0..rq.sections.len() {
                         let v = cells
                             .iter()
