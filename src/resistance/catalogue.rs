@@ -467,7 +467,7 @@ pub fn lookup(name: &str, user: &[Entry]) -> Result<Entry, String> {
     near.truncate(12);
     Err(if near.is_empty() {
         format!(
-            "no section `{name}` in the catalogue; the built-in series are IPE 80–600, HE 100–400 A and B (HEA/HEB) and W18/W21 shapes; add your own with `catalogue = \"file.csv\"`"
+            "no section `{name}` in the catalogue; the built-in series are IPE 80–600, HE 100–400 A and B (HEA/HEB) and W12, W14, W18 and W21 shapes; add your own with `catalogue = \"file.csv\"`"
         )
     } else {
         format!(
