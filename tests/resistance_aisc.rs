@@ -5,7 +5,9 @@ use ltb_atlas::case::parse_case;
 use ltb_atlas::resistance::aisc::{self, Method, Section};
 use ltb_atlas::resistance::catalogue::{Fabrication, lookup};
 use ltb_atlas::resistance::ec3::{self};
-use ltb_atlas::resistance::{Code, Design, DesignSection, Detail, design_ratio, evaluate};
+use ltb_atlas::resistance::{
+    Code, Design, DesignSection, Detail, design_ratio, design_ratio_at_kappa, evaluate,
+};
 use ltb_atlas::solve::{Settings, solve};
 
 /// AISC Manual values of W18×50 (AISC Shapes Database as in data/sections/us-w.csv),
@@ -206,4 +208,32 @@ fn design_ratio_of_rule_and_engine_mcr() {
     assert_eq!(r, 1.0);
     let r = design_ratio(&lrfd(), &w18x50(), 20.0 * 0.3048, E, 300.0, 250.0).unwrap();
     assert!(r > 1.0 && r <= 1.2 + 1e-12, "{r}");
+}
+
+// The family-point form places κ on the section (L = (π/κ)·√(E·Iw/(G·It)),
+// domain notes) and agrees with the physical form at that length; the engine
+// confirms the placement: a uniform-moment case of that length has the
+// family's κ.
+#[test]
+fn design_ratio_at_a_family_point() {
+    let s = DesignSection::from_entry(&lookup("IPE 300", &[]).unwrap()).unwrap();
+    let d = Design {
+        code: Code::Ec3(ec3::Options::default()),
+        grade: Some("S355".into()),
+        fy: None,
+        fabrication: None,
+    };
+    let (r, l) = design_ratio_at_kappa(&d, &s, 210000.0, 81000.0, 0.8, 4.2, 3.9).unwrap();
+    let rc = parse_case(
+        &format!("length = \"{l} m\"\n[section]\nname = \"IPE 300\"\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"end-moments\"\nstart = 1.0\nend = 1.0\n"),
+        "<test>",
+    )
+    .unwrap();
+    assert!((rc.member.kappa - 0.8).abs() < 1e-12, "{}", rc.member.kappa);
+    let unit = rc.scales.moment;
+    let r2 = design_ratio(&d, &s, l, 210000.0, 4.2 * unit, 3.9 * unit).unwrap();
+    assert!(
+        (r - r2).abs() < 1e-12 && r > 1.0 && r < 4.2 / 3.9,
+        "{r} {r2}"
+    );
 }

@@ -296,3 +296,42 @@ pub fn assumptions(d: &Design, s: &DesignSection) -> Vec<String> {
     }
     v
 }
+
+/// [`design_ratio`] for a point of a dimensionless family: the member length
+/// that gives the section the family's κ, and both Mcr from their μ values.
+///
+/// ```text
+/// L = (π/κ)·√(E·Iw/(G·It))            (κ = (π/L)·√(E·Iw/(G·It)), domain notes)
+/// Mcr = μ·√(E·Iz·G·It)/L               (μ = Mcr·L/√(E·Iz·G·It))
+/// ratio = Mb,Rd(Mcr,rule)/Mb,Rd(Mcr,FE) at that L
+/// ```
+///
+/// Inputs: E and G in MPa, κ > 0, μ values dimensionless. Returns the ratio
+/// and the length in m.
+///
+/// # Errors
+///
+/// As [`evaluate`]; also κ ≤ 0 or a section without warping stiffness.
+///
+/// # References
+/// * ltb-atlas domain notes, "Dimensionless parameters"; EN 1993-1-1:2005
+///   6.3.2; ANSI/AISC 360-16 F2/F3.
+#[allow(clippy::too_many_arguments)]
+pub fn design_ratio_at_kappa(
+    d: &Design,
+    s: &DesignSection,
+    e: f64,
+    g: f64,
+    kappa: f64,
+    mu_rule: f64,
+    mu_fe: f64,
+) -> Result<(f64, f64), String> {
+    let p = &s.props;
+    if !(kappa > 0.0) || !(p.iw > 0.0) {
+        return Err("κ > 0 and a section with warping stiffness are needed to place a family point on a section".into());
+    }
+    let l_mm = std::f64::consts::PI / kappa * (e * p.iw / (g * p.it)).sqrt();
+    let unit = (e * p.iz * g * p.it).sqrt() / l_mm / 1e6; // kN·m
+    let ratio = design_ratio(d, s, l_mm / 1000.0, e, mu_rule * unit, mu_fe * unit)?;
+    Ok((ratio, l_mm / 1000.0))
+}
