@@ -18,6 +18,7 @@ pub mod fe;
 pub mod linalg;
 pub mod model;
 pub mod report;
+pub mod resistance;
 pub mod rules;
 pub mod section;
 pub mod solve;

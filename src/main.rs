@@ -101,6 +101,29 @@ enum Command {
         #[arg(long)]
         yes: bool,
     },
+    /// Design buckling resistance tables (EN 1993-1-1:2005 or AISC 360-16) against length, from the engine's Mcr.
+    Resistance {
+        /// Resistance spec (TOML with a top-level [design] table).
+        spec: PathBuf,
+        /// Output folder (created if needed).
+        #[arg(long)]
+        out: PathBuf,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+        /// Relative error target of every solve (default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+        /// Print nothing but errors.
+        #[arg(long)]
+        quiet: bool,
+        /// Result cache folder (default as for sweep).
+        #[arg(long, value_name = "DIR")]
+        cache: Option<PathBuf>,
+        /// Solve every case afresh, neither reading nor writing the cache.
+        #[arg(long, conflicts_with = "cache")]
+        no_cache: bool,
+    },
     /// Combine the shards of a sharded sweep into the files an unsharded run writes.
     Merge {
         /// The sweep spec the shards were run from.
@@ -145,6 +168,20 @@ fn run(cli: Cli) -> Result<ExitCode> {
             &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
         ),
         Command::Merge { spec, out } => merge_cmd(&spec, &out),
+        Command::Resistance {
+            spec,
+            out,
+            jobs,
+            tolerance,
+            quiet,
+            cache,
+            no_cache,
+        } => {
+            let opts = stage_options(jobs, tolerance, quiet, false, cache, no_cache);
+            let ls = stage::resistance::load(&spec)?;
+            stage::resistance::run(&ls, &out, &opts)?;
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Check {
             spec,
             out,
@@ -216,12 +253,20 @@ fn solve_cmd(
         }
         None => None,
     };
+    let design = stage::resistance::solve_design(path, &rc, &sol)?;
     let mut out = Vec::new();
     if json {
-        serde_json::to_writer_pretty(&mut out, &report::to_json(&rc, &sol, tol))?;
+        let mut j = report::to_json(&rc, &sol, tol);
+        if let (Some((fields, _)), Some(map)) = (&design, j.as_object_mut()) {
+            map.extend(fields.clone());
+        }
+        serde_json::to_writer_pretty(&mut out, &j)?;
         out.push(b'\n');
     } else {
         report::write_text(&mut out, &rc, &sol, &path.display().to_string())?;
+        for line in design.iter().flat_map(|(_, lines)| lines) {
+            writeln!(out, "{line}")?;
+        }
     }
     if let (Some(p), Some(b)) = (mode, mode_bytes) {
         stage::write_atomic(p, &b)?;

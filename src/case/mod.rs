@@ -10,7 +10,7 @@ pub(crate) mod schema;
 pub(crate) mod span;
 #[cfg(test)]
 mod tests;
-mod units;
+pub(crate) mod units;
 
 use crate::model::{Member, Scales};
 use crate::section::Properties;

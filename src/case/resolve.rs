@@ -49,7 +49,8 @@ const COMMON_TOP: &[&str] = &[
 /// Top-level keys of a dimensionless case (before [`COMMON_TOP`]).
 const DIMLESS_TOP: &[&str] = &["kappa", "delta", "axial", "zeta_centroid", "rho"];
 /// Top-level keys of a physical case (before [`COMMON_TOP`]).
-const PHYS_TOP: &[&str] = &["length", "section", "material", "axial"];
+/// (`design` is read by `crate::resistance`, not here.)
+const PHYS_TOP: &[&str] = &["length", "section", "material", "axial", "design"];
 /// Support presets.
 const PRESETS: &[&str] = &["fork", "built-in", "free"];
 /// Load kinds.
@@ -1453,6 +1454,22 @@ pub(crate) fn section_error(t: &Tab<'_>, keys: &[&str], e: SectionError) -> Case
 
 /// Read a `[section]` (or `[segment.section]`) table.
 fn parse_section(src: &Source<'_>, t: &Tab<'_>) -> Result<SectionData, CaseError> {
+    // A catalogue section (`name = "IPE 300"`, optional `catalogue`).
+    if let Some((entry, label)) = crate::resistance::catalogue::case_lookup(src, t)? {
+        let props =
+            section::properties(&entry.shape).map_err(|e| t.err_at("name", e.to_string()))?;
+        return Ok(SectionData {
+            props,
+            heights: [
+                Some(props.top_flange),
+                Some(props.top_surface),
+                Some(props.bottom_flange),
+                Some(props.bottom_surface),
+            ],
+            area_given: true,
+            label,
+        });
+    }
     let kind = match t.choice("kind", SECTION_KINDS, "section kind")? {
         Some((k, _)) => k,
         None => {

@@ -29,6 +29,10 @@
 //!   plates as the warping elements (Kitipornchai & Trahair 1980).
 //! * Tests compare with published section tables (tests/section_tables.rs).
 
+mod moduli;
+
+pub use moduli::{Moduli, moduli};
+
 use std::f64::consts::PI;
 use std::ops::{Add, Sub};
 

@@ -495,11 +495,7 @@ fn frontier(
         })
     };
     let (ni, nj) = (len(ka), len(za));
-    let lens: Vec<usize> = f
-        .axes
-        .iter()
-        .map(Axis::len)
-        .collect();
+    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
     let idx_of = |i: usize, j: usize| {
         let mut idx = combo.index.clone();
         if let Some(a) = ka {

@@ -5,6 +5,7 @@
 //! numerics below keep typed errors.
 
 pub mod check;
+pub mod resistance;
 
 use crate::solve::Settings;
 use crate::sweep::cache::{self, Cache, point_key};
