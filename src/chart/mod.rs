@@ -12,10 +12,10 @@
 //! instead of clipping lines. Output bytes depend only on the input (no
 //! clock, no host, no hash-map order), so two renders are identical.
 
-//pub mod mode;
+pub mod mode;
 pub mod post;
 pub mod ratio_map;
-//pub mod schematic;
+pub mod schematic;
 pub mod style;
 pub mod xy;
 

@@ -52,6 +52,8 @@ pub struct XyChart {
     pub notes: Vec<String>,
     /// Print the caution under the chart (standalone charts).
     pub caution: bool,
+    /// Palette index of the first series (panels sharing one legend).
+    pub style_offset: usize,
 }
 
 /// Data range of the chart: (x range, y range).
@@ -119,7 +121,7 @@ pub fn render(c: &XyChart) -> Result<String, ChartError> {
         } else {
             panel(&plot, xr.0..xr.1, yr, c)?;
         }
-        draw_legend(&legend, &c.legend_title, &c.series, c.valid_x.is_some())?;
+        draw_legend(&legend, &c.legend_title, &c.series, 0, c.valid_x.is_some())?;
         draw_lines(
             &footer,
             &foot,
@@ -211,7 +213,7 @@ where
     }
     let (xb, yb) = ((x0, x1), (y0, y1));
     for (i, s) in c.series.iter().enumerate() {
-        let st = style::series(i);
+        let st = style::series(i + c.style_offset);
         let (line, width) = match &s.curve {
             Some(curve) => (curve.clone(), style::LINE),
             None => (s.points.clone(), style::LINE_THIN),
@@ -254,15 +256,16 @@ pub(crate) fn draw_legend(
     area: &Area,
     title: &str,
     series: &[Series],
+    offset: usize,
     shaded: bool,
-) -> Result<(), ChartError> {
+) -> Result<i32, ChartError> {
     let x = 10;
     let mut y = MARGIN + 10;
     let width = LEGEND_WIDTH as f64 - 40.0;
     let head = wrap(title, TEXT, width);
     y = draw_lines(area, &head, (x, y), &bold(TEXT), TEXT * 1.3)? + 12;
     for (i, s) in series.iter().enumerate() {
-        let st = style::series(i);
+        let st = style::series(i + offset);
         let lines = wrap(&s.label, TEXT, width - 110.0);
         let yc = y + (TEXT * 0.6) as i32;
         let lw = if s.curve.is_some() {
@@ -288,7 +291,7 @@ pub(crate) fn draw_legend(
         ))
         .map_err(draw_err)?;
         let lines = wrap("outside the fitted formula's validity range", TEXT, width - 110.0);
-        draw_lines(area, &lines, (x + 110, y), &font(TEXT), TEXT * 1.25)?;
+        y = draw_lines(area, &lines, (x + 110, y), &font(TEXT), TEXT * 1.25)?;
     }
-    Ok(())
+    Ok(y)
 }
