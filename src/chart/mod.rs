@@ -64,7 +64,9 @@ pub(crate) fn anchored(t: TextStyle<'static>, h: HPos, v: VPos) -> TextStyle<'st
 pub(crate) fn wrap(text: &str, size: f64, width: f64) -> Vec<String> {
     let mut lines = Vec::new();
     let mut cur = String::new();
-    for w in text.split_whitespace() {
+    // Break at plain spaces only: a no-break space (U+00A0) keeps "r > 1"
+    // together.
+    for w in text.split(' ').filter(|w| !w.is_empty()) {
         let cand = if cur.is_empty() {
             w.to_string()
         } else {
@@ -129,6 +131,23 @@ pub(crate) fn marker(area: &Area, (x, y): (i32, i32), st: SeriesStyle) -> Result
     let res = match st.marker {
         M::Disc => area.draw(&Circle::new((x, y), r as u32, fill)),
         M::Ring => area.draw(&Circle::new((x, y), r as u32, c.stroke_width(4))),
+        M::Box => {
+            let h = (r as f64 * 0.85).round() as i32;
+            area.draw(&Rectangle::new([(x - h, y - h), (x + h, y + h)], c.stroke_width(4)))
+        }
+        // Hollow diamond: a filled one with a white core (a stroked
+        // polyline in the series colour would pick up the series' dashes).
+        M::Rhomb => area
+            .draw(&Polygon::new(
+                vec![(x, y - r - 3), (x + r + 1, y), (x, y + r + 3), (x - r - 1, y)],
+                fill,
+            ))
+            .and_then(|_| {
+                area.draw(&Polygon::new(
+                    vec![(x, y - r + 3), (x + r - 5, y), (x, y + r - 3), (x - r + 5, y)],
+                    WHITE.filled(),
+                ))
+            }),
         M::Square => {
             let h = (r as f64 * 0.85).round() as i32;
             area.draw(&Rectangle::new([(x - h, y - h), (x + h, y + h)], fill))
@@ -237,6 +256,26 @@ pub fn fmt_tick(x: f64, digits: usize) -> String {
     };
     let s = if s == "-0" { "0".to_string() } else { s };
     s.replacen('-', "−", 1)
+}
+
+/// Tick positions of a logarithmic axis over [a, b]: 1, 2, 5 in each
+/// decade (1, 2, 3, 5 when that gives fewer than four), and the minor grid
+/// at 1…9 per decade.
+pub fn log_ticks(a: f64, b: f64) -> (Vec<f64>, Vec<f64>) {
+    let d0 = a.log10().floor() as i32;
+    let d1 = b.log10().ceil() as i32;
+    let pick = |ms: &[f64]| -> Vec<f64> {
+        (d0..=d1)
+            .flat_map(|d| ms.iter().map(move |m| m * 10f64.powi(d)))
+            .filter(|x| *x >= a * (1.0 - 1e-12) && *x <= b * (1.0 + 1e-12))
+            .collect()
+    };
+    let mut major = pick(&[1.0, 2.0, 5.0]);
+    if major.len() < 4 {
+        major = pick(&[1.0, 2.0, 3.0, 5.0]);
+    }
+    let minor = pick(&[1.0, 2.0, 3.0, 4.0, 5.0, 6.0, 7.0, 8.0, 9.0]);
+    (major, minor)
 }
 
 /// Finish an SVG (see [`post::finish`]).

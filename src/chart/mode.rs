@@ -96,18 +96,18 @@ pub fn render(m: &ModeShape) -> Result<String, ChartError> {
     let text_w = WIDTH as f64 - 2.0 * MARGIN as f64;
     let foot = footer_lines(&m.notes, m.caution, text_w);
     let head_h = 120u32;
-    let panel_h = 560u32;
+    let panel_h = 600u32;
     let foot_h = (foot.len() as f64 * SMALL_LEADING).ceil() as u32 + 40;
     let h = head_h + 2 * panel_h + foot_h;
     let top = XyChart {
         title: m.title.clone(),
         subtitle: String::new(),
         x_label: "x/L  (dimensionless)".into(),
-        y_label: "lateral displacement / max  (dimensionless)".into(),
+        y_label: "u/max|u|  (dimensionless)".into(),
         x_log: false,
         y_from_zero: false,
         series: lat,
-        legend_title: "Buckling mode".into(),
+        legend_title: "Lateral displacement u".into(),
         valid_x: None,
         notes: Vec::new(),
         caution: false,
@@ -115,7 +115,7 @@ pub fn render(m: &ModeShape) -> Result<String, ChartError> {
     };
     let n_lat = top.series.len();
     let bottom = XyChart {
-        y_label: "twist φ / max|φ|  (dimensionless)".into(),
+        y_label: "φ/max|φ|  (dimensionless)".into(),
         series: vec![twist],
         style_offset: 3,
         ..top.clone()
@@ -142,10 +142,10 @@ pub fn render(m: &ModeShape) -> Result<String, ChartError> {
         panel(&p2, 0.0..1.0, sym(&bottom), &bottom)?;
         let y = draw_legend(&legend, &top.legend_title, &top.series, 0, false)?;
         let (_, low) = legend.split_vertically(y as u32 + 10);
-        let y2 = draw_legend(&low, "", &bottom.series, n_lat.max(3), false)?;
+        let y2 = draw_legend(&low, "Twist", &bottom.series, n_lat.max(3), false)?;
         let (_, note) = low.split_vertically(y2 as u32 + 30);
         let lines = wrap(
-            "top and bottom flange: v − z·φ at the flange heights; both panels normalised to their largest value",
+            "u = v − z·φ at height z above the shear centre (v: shear centre, φ: twist); each panel normalised to its largest value; x from the start of the member",
             style::SMALL,
             LEGEND_WIDTH as f64 - 40.0,
         );

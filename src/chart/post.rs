@@ -85,6 +85,11 @@ pub fn finish(svg: &str) -> String {
         s = dash(&s, st.colour, st.dash);
     }
     s = dash(&s, GUIDE, GUIDE_DASH);
+    // Filled cells edge to edge: crisp edges, so no seams show between them.
+    s = s.replace(
+        "<rect ",
+        "<rect shape-rendering=\"crispEdges\" ",
+    );
     let sentinel = format!("fill=\"{}\"", hex(HATCH_SENTINEL));
     if s.contains(&sentinel) {
         s = s.replace(&sentinel, &format!("fill=\"url(#{HATCH_ID})\""));

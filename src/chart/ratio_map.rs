@@ -191,7 +191,7 @@ pub fn render(m: &RatioMap) -> Result<String, ChartError> {
     let head_h = 120u32;
     let body_h = 1000u32;
     let foot_h = (foot.len() as f64 * SMALL_LEADING).ceil() as u32 + 40;
-    let bar_w = 520u32;
+    let bar_w = 600u32;
     let mut svg = String::new();
     {
         let root =
@@ -203,7 +203,9 @@ pub fn render(m: &RatioMap) -> Result<String, ChartError> {
         let (plot, side) = body.split_horizontally(WIDTH - bar_w);
         let (lo, hi) = scale(&m.cells);
         if m.kappa_log {
-            map_panel(&plot, (k0..k1).log_scale(), (z0, z1), m, &ps, (lo, hi))?;
+            let (major, _) = super::log_ticks(k0, k1);
+            let x = (k0..k1).log_scale().with_key_points(major);
+            map_panel(&plot, x, (z0, z1), m, &ps, (lo, hi))?;
         } else {
             map_panel(&plot, k0..k1, (z0, z1), m, &ps, (lo, hi))?;
         }
@@ -366,17 +368,18 @@ where
 
 /// The colour bar and the key of the map's marks.
 fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), ChartError> {
-    let (bar, key) = area.split_vertically(560);
+    let (bar, key) = area.split_vertically(500);
     let mut chart = ChartBuilder::on(&bar)
         .margin_top(MARGIN + 80)
         .margin_bottom(20)
         .margin_left(20)
-        .margin_right(250)
+        .margin_right(330)
         .y_label_area_size(0)
         .right_y_label_area_size(120)
         .build_cartesian_2d(0.0..1.0, lo..hi)
         .map_err(draw_err)?;
-    let ydig = if hi - lo > 2.0 { 1 } else { 2 };
+    let step = (hi - lo) / 6.0;
+    let ydig = ((-step.log10()).ceil() as i64 + 1).clamp(1, 4) as usize;
     chart
         .configure_mesh()
         .disable_mesh()
@@ -390,7 +393,8 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
     let steps = 64;
     for i in 0..steps {
         let a = lo + (hi - lo) * i as f64 / steps as f64;
-        let b = lo + (hi - lo) * (i + 1) as f64 / steps as f64;
+        // Each step overlaps the next a little: no seams between them.
+        let b = (lo + (hi - lo) * (i as f64 + 1.6) / steps as f64).min(hi);
         chart
             .draw_series(std::iter::once(Rectangle::new(
                 [(0.0, a), (1.0, b)],
@@ -408,7 +412,7 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
     if hi > 1.0 {
         chart
             .draw_series(std::iter::once(Rectangle::new(
-                [(0.0, 1.0), (1.0, hi)],
+                [(0.55, 1.0), (1.0, hi)],
                 HATCH_SENTINEL.filled(),
             )))
             .map_err(draw_err)?;
@@ -433,15 +437,16 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
     // Key.
     let x = 20;
     let mut y = 20;
-    let width = 480.0;
+    let width = 580.0;
+    let ks = TEXT - 3.0;
     let has = |v: Verdict| cells.iter().any(|c| c.verdict == v);
     let entry = |draw: &dyn Fn(&Area, i32) -> Result<(), ChartError>,
                      text: &str,
                      y: &mut i32|
      -> Result<(), ChartError> {
         draw(&key, *y)?;
-        let lines = wrap(text, TEXT, width - 100.0);
-        *y = draw_lines(&key, &lines, (x + 90, *y), &font(TEXT), TEXT * 1.25)? + 16;
+        let lines = wrap(text, ks, width - 100.0);
+        *y = draw_lines(&key, &lines, (x + 90, *y), &font(ks), ks * 1.25)? + 14;
         Ok(())
     };
     entry(
@@ -451,7 +456,7 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
             a.draw(&Rectangle::new([(x, y), (x + 70, y + 40)], INK.stroke_width(2)))
                 .map_err(draw_err)
         },
-        "hatched: unconservative (r > 1)",
+        "hatched: unconservative, r\u{a0}>\u{a0}1",
         &mut y,
     )?;
     entry(
@@ -467,7 +472,7 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
             a.draw(&PathElement::new(vec![(x, y + 20), (x + 70, y + 20)], GUIDE.stroke_width(4)))
                 .map_err(draw_err)
         },
-        "flange lines ζ = ±κ (doubly symmetric I-section)",
+        "flange lines ζ = ±κ",
         &mut y,
     )?;
     if has(Verdict::Indeterminate) {
@@ -476,7 +481,7 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
                 a.draw(&Circle::new((x + 35, y + 20), 9, INK.stroke_width(2)))
                     .map_err(draw_err)
             },
-            "ring: within the tolerance of r = 1",
+            "ring: r within the tolerance of 1",
             &mut y,
         )?;
     }
@@ -486,7 +491,7 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
                 a.draw(&Rectangle::new([(x, y), (x + 70, y + 40)], style::FAINT.stroke_width(2)))
                     .map_err(draw_err)
             },
-            "blank: rule not applicable (or no FE value)",
+            "blank: rule not applicable",
             &mut y,
         )?;
     }

@@ -132,7 +132,7 @@ pub fn render(s: &Schematic) -> Result<String, ChartError> {
     let m = &s.member;
     let text_w = WIDTH as f64 - 2.0 * MARGIN as f64;
     let foot = footer_lines(&s.notes, s.caution, text_w);
-    let body_h = 1180u32;
+    let body_h = 1140u32;
     let foot_h = (foot.len() as f64 * SMALL_LEADING).ceil() as u32 + 40;
     // Vertical scale: flanges at ±κ; every height shown fits in ±170 px.
     let mut hmax = m.kappa.abs();
@@ -275,7 +275,19 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     }
     // Point restraints at their height.
     for r in &m.restraints {
-        let (x, y) = (g.x(r.at), g.y(r.zeta));
+        let (mut x, y) = (g.x(r.at), g.y(r.zeta));
+        // Beside a load acting at the same point, not on top of it.
+        let on_load = m.loads.iter().any(|l| match *l {
+            Load::Point { at, zeta, .. } => {
+                (g.x(at) - x).abs() < 40 && (g.y(zeta) - y).abs() < 40
+            }
+            _ => false,
+        });
+        if on_load {
+            root.draw(&PathElement::new(vec![(x, y), (x + 48, y)], BRACE.stroke_width(4)))
+                .map_err(draw_err)?;
+            x += 48;
+        }
         if !r.lateral.is_free() {
             brace_lateral(root, (x, y), r.lateral.spring().is_some())?;
         }
@@ -494,8 +506,8 @@ fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
 
 fn table(root: &Area, m: &Member, g: &Geo) -> Result<(), ChartError> {
     let cols = columns(m);
-    let top = 720;
-    let row_h = 58;
+    let top = 770;
+    let row_h = 56;
     let size = TEXT - 2.0;
     text(root, "out of plane:", (MARGIN, top - 52), HPos::Left, VPos::Center, size)?;
     for (i, r) in ROWS.iter().enumerate() {
@@ -542,7 +554,7 @@ fn glyph(root: &Area, (x, y): (i32, i32), f: Option<Fixity>) -> Result<(), Chart
 }
 
 fn key(root: &Area) -> Result<(), ChartError> {
-    let y0 = 990;
+    let y0 = 1030;
     let size = style::SMALL + 4.0;
     text(root, "key:", (MARGIN, y0), HPos::Left, VPos::Center, size)?;
     let mut x = MARGIN + 80;
@@ -587,16 +599,4 @@ fn key(root: &Area) -> Result<(), ChartError> {
         x += w;
     }
     Ok(())
-}
-
-impl Schematic {
-    /// The number of restraint symbols the schematic draws (lateral and
-    /// twist braces, each counted once in the elevation).
-    pub fn brace_count(&self) -> usize {
-        self.member
-            .restraints
-            .iter()
-            .map(|r| usize::from(!r.lateral.is_free()) + usize::from(!r.twist.is_free()))
-            .sum()
-    }
 }

@@ -49,7 +49,7 @@ pub const X_LABEL_AREA: u32 = 130;
 /// Room for y tick labels and the y axis title, px.
 pub const Y_LABEL_AREA: u32 = 150;
 /// Width of the legend column right of the plot, px.
-pub const LEGEND_WIDTH: u32 = 470;
+pub const LEGEND_WIDTH: u32 = 560;
 
 /// Ink: text, axes, frontier lines.
 pub const INK: RGBColor = RGBColor(0x1A, 0x1A, 0x1A);
@@ -89,6 +89,10 @@ pub enum Marker {
     TriangleDown,
     /// Hollow circle.
     Ring,
+    /// Hollow square.
+    Box,
+    /// Hollow diamond.
+    Rhomb,
 }
 
 /// One series' look.
@@ -103,10 +107,10 @@ pub struct SeriesStyle {
     pub marker: Marker,
 }
 
-/// The series palette, in order of use. Lightness (CIE L*) runs
-/// 15, 67, 36, 79, 50, 60 so that neighbours differ in grayscale; the dash
-/// and marker also differ for every pair.
-pub const SERIES: [SeriesStyle; 6] = [
+/// The series palette, in order of use. Neighbours differ in lightness
+/// (CIE L*) so that they stay apart in grayscale, and every pair differs in
+/// both dash pattern and marker.
+pub const SERIES: [SeriesStyle; 8] = [
     SeriesStyle {
         colour: RGBColor(0x14, 0x24, 0x3B),
         dash: "",
@@ -137,10 +141,20 @@ pub const SERIES: [SeriesStyle; 6] = [
         dash: "40 12",
         marker: Marker::Ring,
     },
+    SeriesStyle {
+        colour: RGBColor(0x7A, 0x2E, 0x2E),
+        dash: "3 6",
+        marker: Marker::Box,
+    },
+    SeriesStyle {
+        colour: RGBColor(0x8C, 0x9A, 0x5B),
+        dash: "24 6 24 14",
+        marker: Marker::Rhomb,
+    },
 ];
 
-/// The style of series `i` (the palette repeats after six series; the
-/// legend then still tells them apart by label order).
+/// The style of series `i` (the palette repeats after eight series: split
+/// such a chart).
 pub fn series(i: usize) -> SeriesStyle {
     SERIES[i % SERIES.len()]
 }
@@ -203,16 +217,19 @@ mod tests {
         assert!(lightness(RGBColor(0, 0, 0)).abs() < 1e-9);
     }
 
-    // Common practice, no source: series that print in grayscale should
-    // differ by at least ~8 L* units from every other series.
+    // Common practice, no source: neighbouring series should differ by at
+    // least ~8 L* units in grayscale, and every pair by dash and marker.
     #[test]
     fn palette_separates_in_grayscale() {
+        for i in 1..SERIES.len() {
+            let d = (lightness(SERIES[i].colour) - lightness(SERIES[i - 1].colour)).abs();
+            assert!(d >= 8.0, "series {i} and {} differ by L* {d:.1}", i - 1);
+        }
         for i in 0..SERIES.len() {
             for j in 0..i {
-                let d = (lightness(SERIES[i].colour) - lightness(SERIES[j].colour)).abs();
-                assert!(d >= 8.0, "series {i} and {j} differ by L* {d:.1}");
                 assert_ne!(SERIES[i].dash, SERIES[j].dash);
                 assert_ne!(SERIES[i].marker, SERIES[j].marker);
+                assert_ne!(SERIES[i].colour, SERIES[j].colour);
             }
         }
     }

@@ -117,7 +117,12 @@ pub fn render(c: &XyChart) -> Result<String, ChartError> {
         let (body, footer) = rest.split_vertically(body_h);
         let (plot, legend) = body.split_horizontally(WIDTH - LEGEND_WIDTH);
         if c.x_log {
-            panel(&plot, (xr.0..xr.1).log_scale(), yr, c)?;
+            let (major, minor) = super::log_ticks(xr.0, xr.1);
+            let x = (xr.0..xr.1)
+                .log_scale()
+                .with_key_points(major)
+                .with_light_points(minor);
+            panel(&plot, x, yr, c)?;
         } else {
             panel(&plot, xr.0..xr.1, yr, c)?;
         }
@@ -182,7 +187,7 @@ where
         .label_style(font(style::TICK))
         .axis_desc_style(font(style::AXIS))
         .bold_line_style(style::GRID_COLOUR.stroke_width(GRID))
-        .light_line_style(WHITE.mix(0.0))
+        .light_line_style(style::GRID_LIGHT.stroke_width(1))
         .axis_style(INK.stroke_width(FRAME))
         .x_labels(10)
         .y_labels(8)
@@ -266,7 +271,7 @@ pub(crate) fn draw_legend(
     y = draw_lines(area, &head, (x, y), &bold(TEXT), TEXT * 1.3)? + 12;
     for (i, s) in series.iter().enumerate() {
         let st = style::series(i + offset);
-        let lines = wrap(&s.label, TEXT, width - 110.0);
+        let lines = wrap(&s.label, TEXT, width - 100.0);
         let yc = y + (TEXT * 0.6) as i32;
         let lw = if s.curve.is_some() {
             style::LINE
@@ -274,14 +279,14 @@ pub(crate) fn draw_legend(
             style::LINE_THIN
         };
         area.draw(&PathElement::new(
-            vec![(x, yc), (x + 90, yc)],
+            vec![(x, yc), (x + 80, yc)],
             st.colour.stroke_width(lw),
         ))
         .map_err(draw_err)?;
         if !s.points.is_empty() {
-            marker(area, (x + 45, yc), st)?;
+            marker(area, (x + 40, yc), st)?;
         }
-        y = draw_lines(area, &lines, (x + 110, y), &font(TEXT), TEXT * 1.25)? + 14;
+        y = draw_lines(area, &lines, (x + 100, y), &font(TEXT), TEXT * 1.25)? + 14;
     }
     if shaded {
         y += 10;

@@ -873,7 +873,7 @@ fn mode_shapes(
             }
         };
         let dir = if p.direction == Direction::Up { "up" } else { "down" };
-        let mcr = d.mu_cr.map_or(String::new(), |m| format!(", μcr = {}", sweep::round_down(m, d.error_estimate)));
+        let mcr = d.mu_cr.map_or(String::new(), |m| format!(", μ_{{cr}} = {}", sweep::round_down(m, d.error_estimate)));
         let sub = format!(
             "{}κ = {}{}, loads {dir}{mcr}",
             if c.labels.is_empty() { String::new() } else { format!("{}; ", combo_text(&c)) },
@@ -906,7 +906,8 @@ fn mode_shapes(
             title,
             caption: format!(
                 "Lateral displacement of both flanges and twist along the member at the critical load, family {} ({}).",
-                f.name, sub
+                f.name,
+                plain(&sub)
             ),
         });
         files.push((file, svg));
