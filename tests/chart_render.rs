@@ -16,6 +16,15 @@ fn hex(c: plotters::style::RGBColor) -> String {
     format!("#{:02X}{:02X}{:02X}", c.0, c.1, c.2)
 }
 
+/// Write the chart to `$LTB_ATLAS_SAVE_CHARTS/<name>.svg` when that variable
+/// is set (for looking at the test charts; off by default).
+fn save(name: &str, svg: &str) {
+    if let Some(d) = std::env::var_os("LTB_ATLAS_SAVE_CHARTS") {
+        std::fs::create_dir_all(&d).unwrap();
+        std::fs::write(std::path::Path::new(&d).join(format!("{name}.svg")), svg).unwrap();
+    }
+}
+
 /// Parse (fails on malformed XML) and return the document.
 fn parse(svg: &str) -> roxmltree::Document<'_> {
     roxmltree::Document::parse(svg).expect("well-formed SVG")
@@ -53,10 +62,14 @@ fn family_chart(caution: bool) -> XyChart {
         .map(|j| Series {
             label: format!("test series {j}"),
             points: ks.iter().map(|&k| (k, 3.0 + j as f64 + k * k)).collect(),
-            curve: (j == 1).then(|| (0..40).map(|i| {
-                let k = 0.1 * 30f64.powf(i as f64 / 39.0);
-                (k, 4.0 + k * k)
-            }).collect()),
+            curve: (j == 1).then(|| {
+                (0..40)
+                    .map(|i| {
+                        let k = 0.1 * 30f64.powf(i as f64 / 39.0);
+                        (k, 4.0 + k * k)
+                    })
+                    .collect()
+            }),
         })
         .collect();
     XyChart {
@@ -83,11 +96,18 @@ fn family_chart_has_its_series_points_and_legend() {
     fonts_are_explicit(&doc);
     assert!(!svg.contains("sans-serif"));
     // Subscripts became tspans.
-    assert!(svg.contains("M<tspan baseline-shift=\"sub\"") || svg.contains("μ<tspan baseline-shift=\"sub\""));
+    assert!(
+        svg.contains("M<tspan baseline-shift=\"sub\"")
+            || svg.contains("μ<tspan baseline-shift=\"sub\"")
+    );
     let t = texts(&doc);
     for j in 0..3 {
         let label = format!("test series {j}");
-        assert_eq!(t.iter().filter(|x| **x == label).count(), 1, "legend entry {label}");
+        assert_eq!(
+            t.iter().filter(|x| **x == label).count(),
+            1,
+            "legend entry {label}"
+        );
         let colour = hex(style::series(j).colour);
         // Markers: one per point plus one in the legend.
         let marks = doc
@@ -103,7 +123,11 @@ fn family_chart_has_its_series_points_and_legend() {
         assert!(lines.len() >= 2);
         let dash = style::series(j).dash;
         if !dash.is_empty() {
-            assert!(lines.iter().all(|l| l.attribute("stroke-dasharray") == Some(dash)));
+            assert!(
+                lines
+                    .iter()
+                    .all(|l| l.attribute("stroke-dasharray") == Some(dash))
+            );
         }
     }
     // The caution is printed (wrapped over lines): its first words appear.
@@ -118,7 +142,10 @@ fn axis_ranges_cover_the_data() {
     let ((x0, x1), (y0, y1)) = xy::ranges(&c).unwrap();
     for s in &c.series {
         for &(x, y) in s.points.iter().chain(s.curve.iter().flatten()) {
-            assert!(x >= x0 && x <= x1 && y >= y0 && y <= y1, "({x}, {y}) outside");
+            assert!(
+                x >= x0 && x <= x1 && y >= y0 && y <= y1,
+                "({x}, {y}) outside"
+            );
         }
     }
     assert_eq!(y0, 0.0, "μcr axis starts at 0");
@@ -129,7 +156,10 @@ fn renders_are_byte_identical() {
     let c = family_chart(true);
     assert_eq!(xy::render(&c).unwrap(), xy::render(&c).unwrap());
     let m = test_map();
-    assert_eq!(ratio_map::render(&m).unwrap(), ratio_map::render(&m).unwrap());
+    assert_eq!(
+        ratio_map::render(&m).unwrap(),
+        ratio_map::render(&m).unwrap()
+    );
 }
 
 fn test_map() -> RatioMap {
@@ -150,7 +180,12 @@ fn test_map() -> RatioMap {
                 Verdict::Conservative
             };
             let ratio = (verdict != Verdict::NotApplicable).then_some(r);
-            cells.push(Cell { kappa: k, zeta: z, ratio, verdict });
+            cells.push(Cell {
+                kappa: k,
+                zeta: z,
+                ratio,
+                verdict,
+            });
         }
     }
     RatioMap {
@@ -168,6 +203,7 @@ fn test_map() -> RatioMap {
 fn ratio_map_hatches_unconservative_cells() {
     let m = test_map();
     let svg = ratio_map::render(&m).unwrap();
+    save("ratio-map", &svg);
     let doc = parse(&svg);
     fonts_are_explicit(&doc);
     let hatched = elements(&doc, "rect")
@@ -188,7 +224,10 @@ fn ratio_map_hatches_unconservative_cells() {
     let t = texts(&doc);
     assert!(t.iter().any(|x| x == "top flange ζ = κ"));
     assert!(t.iter().any(|x| x == "bottom flange ζ = −κ"));
-    assert!(t.iter().any(|x| x.starts_with("blank: rule not applicable")));
+    assert!(
+        t.iter()
+            .any(|x| x.starts_with("blank: rule not applicable"))
+    );
 }
 
 #[test]
@@ -250,6 +289,7 @@ fn schematic_shows_an_added_restraint() {
         twist: Fixity::Free,
     });
     let with = schematic_of(braced);
+    save("schematic-braced", &with);
     let (d0, d1) = (parse(&base), parse(&with));
     fonts_are_explicit(&d1);
     let brace = hex(style::BRACE);
@@ -261,7 +301,10 @@ fn schematic_shows_an_added_restraint() {
     let t1 = texts(&d1);
     assert!(t1.iter().any(|x| x == "x = 0.5L"));
     assert!(t1.iter().any(|x| x == "brace ζ = 1"));
-    assert_eq!(schematic::columns(&cantilever()).len() + 1, schematic::columns(&with_member()).len());
+    assert_eq!(
+        schematic::columns(&cantilever()).len() + 1,
+        schematic::columns(&with_member()).len()
+    );
 }
 
 fn with_member() -> Member {
@@ -325,5 +368,51 @@ fn mode_shape_flanges_follow_v_minus_z_phi() {
     let t = texts(&doc);
     for l in ["top flange", "shear centre", "bottom flange", "twist φ"] {
         assert_eq!(t.iter().filter(|x| *x == l).count(), 1, "{l}");
+    }
+}
+
+#[test]
+fn resistance_chart_has_one_curve_per_section() {
+    // Hand-made curves (not a resistance calculation).
+    let sections: Vec<(String, Vec<(f64, f64)>)> = (0..3)
+        .map(|i| {
+            let m0 = 100.0 * (i + 1) as f64;
+            (
+                format!("test section {i}"),
+                (0..=20)
+                    .map(|j| {
+                        let l = 0.5 + 0.5 * j as f64;
+                        (l, m0 / (1.0 + 0.1 * l * l).sqrt())
+                    })
+                    .collect(),
+            )
+        })
+        .collect();
+    let units = xy::ResistanceUnits {
+        length: "m".into(),
+        resistance: "kN·m".into(),
+    };
+    let c = xy::resistance_chart("test resistance", "", sections, &units, vec![], true);
+    let svg = xy::render(&c).unwrap();
+    save("resistance", &svg);
+    let doc = parse(&svg);
+    fonts_are_explicit(&doc);
+    let t = texts(&doc);
+    assert!(t.iter().any(|x| x.contains("(kN·m)")));
+    assert!(t.iter().any(|x| x.contains("(m)")));
+    for j in 0..3 {
+        assert!(t.iter().any(|x| *x == format!("test section {j}")));
+        let colour = hex(style::series(j).colour);
+        let lines = elements(&doc, "polyline")
+            .into_iter()
+            .filter(|n| n.attribute("stroke") == Some(colour.as_str()))
+            .count();
+        assert_eq!(lines, 2, "curve and legend sample of section {j}");
+        // Curves only: no markers.
+        let marks = doc
+            .descendants()
+            .filter(|n| n.is_element() && n.attribute("fill") == Some(colour.as_str()))
+            .count();
+        assert_eq!(marks, 0);
     }
 }

@@ -36,10 +36,15 @@ fn opts() -> Options {
 fn write_check(dir: &Path) {
     // TEST DATA, not a rule: ratios chosen by hand, r > 1 for ζ = κ.
     std::fs::create_dir_all(dir).unwrap();
-    let mut s = String::from("# TEST DATA: hand-made rule check\nkappa,zeta,direction,mcr_ratio,verdict\n");
+    let mut s =
+        String::from("# TEST DATA: hand-made rule check\nkappa,zeta,direction,mcr_ratio,verdict\n");
     for d in ["down", "up"] {
         for k in [0.3, 1.0, 3.0] {
-            for (z, r, v) in [(-k, 0.9, "conservative"), (0.0, 1.0, "indeterminate"), (k, 1.1, "unconservative")] {
+            for (z, r, v) in [
+                (-k, 0.9, "conservative"),
+                (0.0, 1.0, "indeterminate"),
+                (k, 1.1, "unconservative"),
+            ] {
                 s.push_str(&format!("{k},{z},{d},{r},{v}\n"));
             }
         }
@@ -91,7 +96,11 @@ fn charts_from_stage_outputs() {
         }
         let svg = std::fs::read_to_string(out1.join(f)).unwrap();
         roxmltree::Document::parse(&svg).expect("well-formed SVG");
-        assert_eq!(svg, std::fs::read_to_string(out2.join(f)).unwrap(), "{f} differs between runs");
+        assert_eq!(
+            svg,
+            std::fs::read_to_string(out2.join(f)).unwrap(),
+            "{f} differs between runs"
+        );
     }
     assert!(listed.contains(&"test-span.ratio-map.down.hand-rule.svg".to_string()));
     assert!(listed.contains(&"test-span.family-chart.up.svg".to_string()));
@@ -150,5 +159,64 @@ fn stale_sweep_output_is_refused() {
         check: None,
     };
     let e = chart::run(&ls2, &src, &tmp.path().join("out"), &opts()).unwrap_err();
-    assert!(format!("{e:#}").contains("rerun `ltb-atlas sweep`"), "{e:#}");
+    assert!(
+        format!("{e:#}").contains("rerun `ltb-atlas sweep`"),
+        "{e:#}"
+    );
+}
+
+#[test]
+fn fitted_curves_and_validity_from_a_fit_output() {
+    let tmp = tempfile::tempdir().unwrap();
+    let spec = tmp.path().join("spec.toml");
+    std::fs::write(&spec, SPEC.replace("\"ratio-map\", ", "")).unwrap();
+    let ls = stage::load_spec(&spec).unwrap();
+    let sweep = tmp.path().join("sweep");
+    stage::sweep(&ls, &sweep, &opts(), None).unwrap();
+    // TEST DATA: a hand-made fit output for the "down" combination with a
+    // sampled curve for the first ζ value only.
+    let fit = tmp.path().join("fit");
+    std::fs::create_dir_all(&fit).unwrap();
+    let ks: Vec<f64> = (0..30).map(|i| 0.3 * 10f64.powf(i as f64 / 29.0)).collect();
+    let mu: Vec<f64> = ks.iter().map(|k| 4.0 * (1.0 + k * k).sqrt()).collect();
+    let json = serde_json::json!({
+        "form": "hand-form", "family": "test-span", "combination": "down",
+        "validity": { "kappa_min": 0.5, "kappa_max": 2.0 },
+        "curves": [ { "zeta_index": 0, "kappa": ks, "mu_cr": mu } ],
+    });
+    std::fs::write(
+        fit.join("test-span.hand-form.down.fit.json"),
+        json.to_string(),
+    )
+    .unwrap();
+    let src = chart::Sources {
+        sweep,
+        fit: Some(fit),
+        check: None,
+    };
+    let out = tmp.path().join("out");
+    chart::run(&ls, &src, &out, &opts()).unwrap();
+    let down = std::fs::read_to_string(out.join("test-span.family-chart.down.svg")).unwrap();
+    let up = std::fs::read_to_string(out.join("test-span.family-chart.up.svg")).unwrap();
+    let wide = |svg: &str| {
+        let doc = roxmltree::Document::parse(svg).unwrap();
+        doc.descendants()
+            .filter(|n| {
+                n.tag_name().name() == "polyline" && n.attribute("stroke-width") == Some("5")
+            })
+            .map(|n| n.attribute("points").unwrap().split_whitespace().count())
+            .collect::<Vec<_>>()
+    };
+    // The fitted curve: a full-weight line with the 30 samples (plus the
+    // legend sample); the "up" chart has no fit and no full-weight curve
+    // other than legend-free thin joins.
+    assert!(wide(&down).contains(&30), "{:?}", wide(&down));
+    assert!(wide(&up).iter().all(|&n| n < 30));
+    assert!(down.contains("lines: the fitted formula"));
+    assert!(up.contains("no fit output given"));
+    // Outside the fit's validity range (κ < 0.5 and κ > 2) the plot is
+    // shaded; the legend explains the shade.
+    assert!(down.contains("fill=\"#E6E6E6\""));
+    assert!(!up.contains("fill=\"#E6E6E6\""));
+    assert!(down.contains("outside the fitted"));
 }

@@ -19,9 +19,9 @@ pub mod schematic;
 pub mod style;
 pub mod xy;
 
+use plotters::backend::SVGBackend;
 use plotters::coord::Shift;
 use plotters::prelude::*;
-use plotters::backend::SVGBackend;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
 use style::{FONT, INK, SMALL, SeriesStyle};
 
@@ -51,8 +51,12 @@ pub(crate) fn font(size: f64) -> TextStyle<'static> {
 
 /// Bold text style.
 pub(crate) fn bold(size: f64) -> TextStyle<'static> {
-    TextStyle::from(FontDesc::new(FontFamily::Name(FONT), size * 1.24, FontStyle::Bold))
-        .color(&INK)
+    TextStyle::from(FontDesc::new(
+        FontFamily::Name(FONT),
+        size * 1.24,
+        FontStyle::Bold,
+    ))
+    .color(&INK)
 }
 
 /// Text style anchored at (h, v).
@@ -133,18 +137,31 @@ pub(crate) fn marker(area: &Area, (x, y): (i32, i32), st: SeriesStyle) -> Result
         M::Ring => area.draw(&Circle::new((x, y), r as u32, c.stroke_width(4))),
         M::Box => {
             let h = (r as f64 * 0.85).round() as i32;
-            area.draw(&Rectangle::new([(x - h, y - h), (x + h, y + h)], c.stroke_width(4)))
+            area.draw(&Rectangle::new(
+                [(x - h, y - h), (x + h, y + h)],
+                c.stroke_width(4),
+            ))
         }
         // Hollow diamond: a filled one with a white core (a stroked
         // polyline in the series colour would pick up the series' dashes).
         M::Rhomb => area
             .draw(&Polygon::new(
-                vec![(x, y - r - 3), (x + r + 1, y), (x, y + r + 3), (x - r - 1, y)],
+                vec![
+                    (x, y - r - 3),
+                    (x + r + 1, y),
+                    (x, y + r + 3),
+                    (x - r - 1, y),
+                ],
                 fill,
             ))
             .and_then(|_| {
                 area.draw(&Polygon::new(
-                    vec![(x, y - r + 3), (x + r - 5, y), (x, y + r - 3), (x - r + 5, y)],
+                    vec![
+                        (x, y - r + 3),
+                        (x + r - 5, y),
+                        (x, y + r - 3),
+                        (x - r + 5, y),
+                    ],
                     WHITE.filled(),
                 ))
             }),
@@ -153,15 +170,28 @@ pub(crate) fn marker(area: &Area, (x, y): (i32, i32), st: SeriesStyle) -> Result
             area.draw(&Rectangle::new([(x - h, y - h), (x + h, y + h)], fill))
         }
         M::TriangleUp => area.draw(&Polygon::new(
-            vec![(x, y - r - 2), (x + r + 1, y + r - 2), (x - r - 1, y + r - 2)],
+            vec![
+                (x, y - r - 2),
+                (x + r + 1, y + r - 2),
+                (x - r - 1, y + r - 2),
+            ],
             fill,
         )),
         M::TriangleDown => area.draw(&Polygon::new(
-            vec![(x, y + r + 2), (x + r + 1, y - r + 2), (x - r - 1, y - r + 2)],
+            vec![
+                (x, y + r + 2),
+                (x + r + 1, y - r + 2),
+                (x - r - 1, y - r + 2),
+            ],
             fill,
         )),
         M::Diamond => area.draw(&Polygon::new(
-            vec![(x, y - r - 3), (x + r + 1, y), (x, y + r + 3), (x - r - 1, y)],
+            vec![
+                (x, y - r - 3),
+                (x + r + 1, y),
+                (x, y + r + 3),
+                (x - r - 1, y),
+            ],
             fill,
         )),
     };
@@ -200,12 +230,7 @@ pub fn clip_polyline(
         let mut lo = 0.0f64;
         let mut hi = 1.0f64;
         let mut inside = true;
-        for (p, q) in [
-            (-dx, ax - u0),
-            (dx, u1 - ax),
-            (-dy, ay - y0),
-            (dy, y1 - ay),
-        ] {
+        for (p, q) in [(-dx, ax - u0), (dx, u1 - ax), (-dy, ay - y0), (dy, y1 - ay)] {
             if p == 0.0 {
                 if q < 0.0 {
                     inside = false;

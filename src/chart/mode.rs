@@ -85,7 +85,12 @@ pub fn series(m: &ModeShape) -> Result<(Vec<Series>, Series), ChartError> {
     let twist = Series {
         label: "twist φ".into(),
         points: Vec::new(),
-        curve: Some(m.x.iter().zip(&m.phi).map(|(&x, &p)| (x, p / pmax)).collect()),
+        curve: Some(
+            m.x.iter()
+                .zip(&m.phi)
+                .map(|(&x, &p)| (x, p / pmax))
+                .collect(),
+        ),
     };
     Ok((lat, twist))
 }
@@ -150,7 +155,13 @@ pub fn render(m: &ModeShape) -> Result<String, ChartError> {
             LEGEND_WIDTH as f64 - 40.0,
         );
         draw_lines(&note, &lines, (10, 0), &font(style::SMALL), SMALL_LEADING)?;
-        draw_lines(&footer, &foot, (MARGIN, 20), &font(style::SMALL), SMALL_LEADING)?;
+        draw_lines(
+            &footer,
+            &foot,
+            (MARGIN, 20),
+            &font(style::SMALL),
+            SMALL_LEADING,
+        )?;
         root.present().map_err(draw_err)?;
     }
     Ok(super::finish(svg))

@@ -86,10 +86,7 @@ pub fn finish(svg: &str) -> String {
     }
     s = dash(&s, GUIDE, GUIDE_DASH);
     // Filled cells edge to edge: crisp edges, so no seams show between them.
-    s = s.replace(
-        "<rect ",
-        "<rect shape-rendering=\"crispEdges\" ",
-    );
+    s = s.replace("<rect ", "<rect shape-rendering=\"crispEdges\" ");
     let sentinel = format!("fill=\"{}\"", hex(HATCH_SENTINEL));
     if s.contains(&sentinel) {
         s = s.replace(&sentinel, &format!("fill=\"url(#{HATCH_ID})\""));
@@ -98,10 +95,10 @@ pub fn finish(svg: &str) -> String {
             w = HATCH_SPACING,
             ink = hex(style::INK),
         );
-        if let Some(i) = s.find("<svg") {
-            if let Some(j) = s[i..].find('>') {
-                s.insert_str(i + j + 1, &format!("\n{defs}"));
-            }
+        if let Some(i) = s.find("<svg")
+            && let Some(j) = s[i..].find('>')
+        {
+            s.insert_str(i + j + 1, &format!("\n{defs}"));
         }
     }
     s

@@ -14,8 +14,8 @@
 use super::style::{self, FRAME, GRID, GUIDE, HATCH_SENTINEL, INK, MARGIN, TEXT, WIDTH};
 use super::xy::draw_title;
 use super::{
-    Area, ChartError, SMALL_LEADING, anchored, bold, clip_polyline, draw_err, draw_lines,
-    fmt_tick, font, footer_lines, wrap,
+    Area, ChartError, SMALL_LEADING, anchored, bold, clip_polyline, draw_err, draw_lines, fmt_tick,
+    font, footer_lines, wrap,
 };
 use plotters::backend::SVGBackend;
 use plotters::coord::ranged1d::{AsRangedCoord, Ranged, ValueFormatter};
@@ -183,9 +183,15 @@ pub fn render(m: &RatioMap) -> Result<String, ChartError> {
         return Err(ChartError::Empty(format!("{}: no grid points", m.title)));
     }
     let k0 = ps.iter().map(|p| p.kappa.0).fold(f64::INFINITY, f64::min);
-    let k1 = ps.iter().map(|p| p.kappa.1).fold(f64::NEG_INFINITY, f64::max);
+    let k1 = ps
+        .iter()
+        .map(|p| p.kappa.1)
+        .fold(f64::NEG_INFINITY, f64::max);
     let z0 = ps.iter().map(|p| p.zeta.0).fold(f64::INFINITY, f64::min);
-    let z1 = ps.iter().map(|p| p.zeta.1).fold(f64::NEG_INFINITY, f64::max);
+    let z1 = ps
+        .iter()
+        .map(|p| p.zeta.1)
+        .fold(f64::NEG_INFINITY, f64::max);
     let text_w = WIDTH as f64 - 2.0 * MARGIN as f64;
     let foot = footer_lines(&m.notes, m.caution, text_w);
     let head_h = 120u32;
@@ -194,8 +200,8 @@ pub fn render(m: &RatioMap) -> Result<String, ChartError> {
     let bar_w = 600u32;
     let mut svg = String::new();
     {
-        let root =
-            SVGBackend::with_string(&mut svg, (WIDTH, head_h + body_h + foot_h)).into_drawing_area();
+        let root = SVGBackend::with_string(&mut svg, (WIDTH, head_h + body_h + foot_h))
+            .into_drawing_area();
         root.fill(&WHITE).map_err(draw_err)?;
         draw_title(&root, &m.title, &m.subtitle)?;
         let (_, rest) = root.split_vertically(head_h);
@@ -210,7 +216,13 @@ pub fn render(m: &RatioMap) -> Result<String, ChartError> {
             map_panel(&plot, k0..k1, (z0, z1), m, &ps, (lo, hi))?;
         }
         colour_bar(&side, (lo, hi), &m.cells)?;
-        draw_lines(&footer, &foot, (MARGIN, 20), &font(style::SMALL), SMALL_LEADING)?;
+        draw_lines(
+            &footer,
+            &foot,
+            (MARGIN, 20),
+            &font(style::SMALL),
+            SMALL_LEADING,
+        )?;
         root.present().map_err(draw_err)?;
     }
     Ok(super::finish(svg))
@@ -332,9 +344,15 @@ where
         if let Some(&(k, z)) = parts.last().and_then(|p| p.last()) {
             let c = chart.backend_coord(&(k, z));
             let w = style::text_width(name, TEXT) as i32 + 16;
-            let (x, y) = (c.0 - ox - w - 10, c.1 - oy + if sgn > 0.0 { 12 } else { -56 });
-            area.draw(&Rectangle::new([(x, y), (x + w, y + 44)], WHITE.mix(0.85).filled()))
-                .map_err(draw_err)?;
+            let (x, y) = (
+                c.0 - ox - w - 10,
+                c.1 - oy + if sgn > 0.0 { 12 } else { -56 },
+            );
+            area.draw(&Rectangle::new(
+                [(x, y), (x + w, y + 44)],
+                WHITE.mix(0.85).filled(),
+            ))
+            .map_err(draw_err)?;
             area.draw(&Text::new(
                 name.to_string(),
                 (x + 8, y + 6),
@@ -430,7 +448,11 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
         bar.draw(&Text::new(
             l.to_string(),
             (20, MARGIN + 4 + 40 * i as i32),
-            anchored(if i == 0 { bold(TEXT) } else { font(TEXT) }, HPos::Left, VPos::Top),
+            anchored(
+                if i == 0 { bold(TEXT) } else { font(TEXT) },
+                HPos::Left,
+                VPos::Top,
+            ),
         ))
         .map_err(draw_err)?;
     }
@@ -441,8 +463,8 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
     let ks = TEXT - 3.0;
     let has = |v: Verdict| cells.iter().any(|c| c.verdict == v);
     let entry = |draw: &dyn Fn(&Area, i32) -> Result<(), ChartError>,
-                     text: &str,
-                     y: &mut i32|
+                 text: &str,
+                 y: &mut i32|
      -> Result<(), ChartError> {
         draw(&key, *y)?;
         let lines = wrap(text, ks, width - 100.0);
@@ -451,26 +473,38 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
     };
     entry(
         &|a, y| {
-            a.draw(&Rectangle::new([(x, y), (x + 70, y + 40)], HATCH_SENTINEL.filled()))
-                .map_err(draw_err)?;
-            a.draw(&Rectangle::new([(x, y), (x + 70, y + 40)], INK.stroke_width(2)))
-                .map_err(draw_err)
+            a.draw(&Rectangle::new(
+                [(x, y), (x + 70, y + 40)],
+                HATCH_SENTINEL.filled(),
+            ))
+            .map_err(draw_err)?;
+            a.draw(&Rectangle::new(
+                [(x, y), (x + 70, y + 40)],
+                INK.stroke_width(2),
+            ))
+            .map_err(draw_err)
         },
         "hatched: unconservative, r\u{a0}>\u{a0}1",
         &mut y,
     )?;
     entry(
         &|a, y| {
-            a.draw(&PathElement::new(vec![(x, y + 20), (x + 70, y + 20)], INK.stroke_width(5)))
-                .map_err(draw_err)
+            a.draw(&PathElement::new(
+                vec![(x, y + 20), (x + 70, y + 20)],
+                INK.stroke_width(5),
+            ))
+            .map_err(draw_err)
         },
         "frontier r = 1",
         &mut y,
     )?;
     entry(
         &|a, y| {
-            a.draw(&PathElement::new(vec![(x, y + 20), (x + 70, y + 20)], GUIDE.stroke_width(4)))
-                .map_err(draw_err)
+            a.draw(&PathElement::new(
+                vec![(x, y + 20), (x + 70, y + 20)],
+                GUIDE.stroke_width(4),
+            ))
+            .map_err(draw_err)
         },
         "flange lines ζ = ±κ",
         &mut y,
@@ -488,8 +522,11 @@ fn colour_bar(area: &Area, (lo, hi): (f64, f64), cells: &[Cell]) -> Result<(), C
     if has(Verdict::NotApplicable) || cells.iter().any(|c| c.ratio.is_none()) {
         entry(
             &|a, y| {
-                a.draw(&Rectangle::new([(x, y), (x + 70, y + 40)], style::FAINT.stroke_width(2)))
-                    .map_err(draw_err)
+                a.draw(&Rectangle::new(
+                    [(x, y), (x + 70, y + 40)],
+                    style::FAINT.stroke_width(2),
+                ))
+                .map_err(draw_err)
             },
             "blank: rule not applicable",
             &mut y,

@@ -13,7 +13,10 @@
 
 use super::style::{self, BRACE, FAINT, GUIDE, HELD, INK, LOAD, MARGIN, MEMBER, TEXT, WIDTH};
 use super::xy::draw_title;
-use super::{Area, ChartError, SMALL_LEADING, anchored, draw_err, draw_lines, fmt_tick, font, footer_lines, wrap};
+use super::{
+    Area, ChartError, SMALL_LEADING, anchored, draw_err, draw_lines, fmt_tick, font, footer_lines,
+    wrap,
+};
 use crate::model::{Fixity, Load, Member, Support};
 use plotters::backend::SVGBackend;
 use plotters::prelude::*;
@@ -151,7 +154,11 @@ pub fn render(s: &Schematic) -> Result<String, ChartError> {
         hmax = hmax.max(z.abs());
     }
     let nominal = m.kappa <= 0.0;
-    let flange = if nominal { (hmax * 0.6).max(0.5) } else { m.kappa };
+    let flange = if nominal {
+        (hmax * 0.6).max(0.5)
+    } else {
+        m.kappa
+    };
     let hmax = hmax.max(flange);
     let g = Geo {
         x0: 470,
@@ -162,8 +169,7 @@ pub fn render(s: &Schematic) -> Result<String, ChartError> {
     };
     let mut svg = String::new();
     {
-        let root =
-            SVGBackend::with_string(&mut svg, (WIDTH, body_h + foot_h)).into_drawing_area();
+        let root = SVGBackend::with_string(&mut svg, (WIDTH, body_h + foot_h)).into_drawing_area();
         root.fill(&WHITE).map_err(draw_err)?;
         draw_title(&root, &s.title, &s.subtitle)?;
         elevation(&root, s, &g)?;
@@ -180,18 +186,41 @@ pub fn render(s: &Schematic) -> Result<String, ChartError> {
             .flat_map(|n| wrap(n, style::SMALL, text_w))
             .chain(foot)
             .collect();
-        draw_lines(&footer, &lines, (MARGIN, 10), &font(style::SMALL), SMALL_LEADING)?;
+        draw_lines(
+            &footer,
+            &lines,
+            (MARGIN, 10),
+            &font(style::SMALL),
+            SMALL_LEADING,
+        )?;
         root.present().map_err(draw_err)?;
     }
     Ok(super::finish(svg))
 }
 
-fn text(area: &Area, t: &str, (x, y): (i32, i32), h: HPos, v: VPos, size: f64) -> Result<(), ChartError> {
-    area.draw(&Text::new(t.to_string(), (x, y), anchored(font(size), h, v)))
-        .map_err(draw_err)
+fn text(
+    area: &Area,
+    t: &str,
+    (x, y): (i32, i32),
+    h: HPos,
+    v: VPos,
+    size: f64,
+) -> Result<(), ChartError> {
+    area.draw(&Text::new(
+        t.to_string(),
+        (x, y),
+        anchored(font(size), h, v),
+    ))
+    .map_err(draw_err)
 }
 
-fn arrow(area: &Area, from: (i32, i32), to: (i32, i32), c: RGBColor, w: u32) -> Result<(), ChartError> {
+fn arrow(
+    area: &Area,
+    from: (i32, i32),
+    to: (i32, i32),
+    c: RGBColor,
+    w: u32,
+) -> Result<(), ChartError> {
     area.draw(&PathElement::new(vec![from, to], c.stroke_width(w)))
         .map_err(draw_err)?;
     let (dx, dy) = ((to.0 - from.0) as f64, (to.1 - from.1) as f64);
@@ -216,11 +245,17 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     let m = &s.member;
     let (yt, yb) = (g.y(g.flange), g.y(-g.flange));
     // Web outline and flanges.
-    root.draw(&Rectangle::new([(g.x0, yt), (g.x1, yb)], RGBColor(0xF2, 0xF2, 0xF2).filled()))
-        .map_err(draw_err)?;
+    root.draw(&Rectangle::new(
+        [(g.x0, yt), (g.x1, yb)],
+        RGBColor(0xF2, 0xF2, 0xF2).filled(),
+    ))
+    .map_err(draw_err)?;
     for y in [yt, yb] {
-        root.draw(&PathElement::new(vec![(g.x0, y), (g.x1, y)], MEMBER.stroke_width(7)))
-            .map_err(draw_err)?;
+        root.draw(&PathElement::new(
+            vec![(g.x0, y), (g.x1, y)],
+            MEMBER.stroke_width(7),
+        ))
+        .map_err(draw_err)?;
     }
     // Shear-centre axis.
     root.draw(&PathElement::new(
@@ -233,8 +268,11 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
         let x = g.x(at);
         if sup.vertical.is_fixed() && sup.in_plane_rotation.is_fixed() {
             let xw = x + end * 6;
-            root.draw(&PathElement::new(vec![(xw, yt - 40), (xw, yb + 40)], INK.stroke_width(7)))
-                .map_err(draw_err)?;
+            root.draw(&PathElement::new(
+                vec![(xw, yt - 40), (xw, yb + 40)],
+                INK.stroke_width(7),
+            ))
+            .map_err(draw_err)?;
             let mut y = yt - 40;
             while y < yb + 40 {
                 root.draw(&PathElement::new(
@@ -257,12 +295,18 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     for c in &m.continuous {
         let y = g.y(c.zeta);
         let (a, b) = (g.x(c.from), g.x(c.to));
-        root.draw(&PathElement::new(vec![(a, y), (b, y)], BRACE.stroke_width(6)))
-            .map_err(draw_err)?;
+        root.draw(&PathElement::new(
+            vec![(a, y), (b, y)],
+            BRACE.stroke_width(6),
+        ))
+        .map_err(draw_err)?;
         let mut x = a;
         while x <= b {
-            root.draw(&PathElement::new(vec![(x, y - 12), (x, y + 12)], BRACE.stroke_width(3)))
-                .map_err(draw_err)?;
+            root.draw(&PathElement::new(
+                vec![(x, y - 12), (x, y + 12)],
+                BRACE.stroke_width(3),
+            ))
+            .map_err(draw_err)?;
             x += 40;
         }
         let what = match (c.lateral > 0.0, c.twist > 0.0) {
@@ -271,21 +315,29 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
             (false, true) => "continuous twist spring",
             (false, false) => "continuous restraint (zero stiffness)",
         };
-        text(root, what, ((a + b) / 2, y - 16), HPos::Center, VPos::Bottom, style::SMALL)?;
+        text(
+            root,
+            what,
+            ((a + b) / 2, y - 16),
+            HPos::Center,
+            VPos::Bottom,
+            style::SMALL,
+        )?;
     }
     // Point restraints at their height.
     for r in &m.restraints {
         let (mut x, y) = (g.x(r.at), g.y(r.zeta));
         // Beside a load acting at the same point, not on top of it.
         let on_load = m.loads.iter().any(|l| match *l {
-            Load::Point { at, zeta, .. } => {
-                (g.x(at) - x).abs() < 40 && (g.y(zeta) - y).abs() < 40
-            }
+            Load::Point { at, zeta, .. } => (g.x(at) - x).abs() < 40 && (g.y(zeta) - y).abs() < 40,
             _ => false,
         });
         if on_load {
-            root.draw(&PathElement::new(vec![(x, y), (x + 48, y)], BRACE.stroke_width(4)))
-                .map_err(draw_err)?;
+            root.draw(&PathElement::new(
+                vec![(x, y), (x + 48, y)],
+                BRACE.stroke_width(4),
+            ))
+            .map_err(draw_err)?;
             x += 48;
         }
         if !r.lateral.is_free() {
@@ -340,7 +392,11 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
                 let (tx, ty) = tails[tails.len() / 2];
                 text(
                     root,
-                    if s.both_directions { "q (down and up)" } else { "q" },
+                    if s.both_directions {
+                        "q (down and up)"
+                    } else {
+                        "q"
+                    },
                     (tx + 12, if down { ty - 8 } else { ty + 8 }),
                     HPos::Left,
                     if down { VPos::Bottom } else { VPos::Top },
@@ -361,13 +417,18 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
 }
 
 fn triangle(root: &Area, x: i32, y: i32) -> Result<(), ChartError> {
-    root.draw(&Polygon::new(vec![(x, y + 4), (x + 24, y + 44), (x - 24, y + 44)], INK.filled()))
-        .map_err(draw_err)
+    root.draw(&Polygon::new(
+        vec![(x, y + 4), (x + 24, y + 44), (x - 24, y + 44)],
+        INK.filled(),
+    ))
+    .map_err(draw_err)
 }
 
 fn brace_lateral(root: &Area, (x, y): (i32, i32), spring: bool) -> Result<(), ChartError> {
-    root.draw(&Circle::new((x, y), 17, WHITE.filled())).map_err(draw_err)?;
-    root.draw(&Circle::new((x, y), 17, BRACE.stroke_width(4))).map_err(draw_err)?;
+    root.draw(&Circle::new((x, y), 17, WHITE.filled()))
+        .map_err(draw_err)?;
+    root.draw(&Circle::new((x, y), 17, BRACE.stroke_width(4)))
+        .map_err(draw_err)?;
     for (a, b) in [((-11, -11), (11, 11)), ((-11, 11), (11, -11))] {
         root.draw(&PathElement::new(
             vec![(x + a.0, y + a.1), (x + b.0, y + b.1)],
@@ -376,17 +437,33 @@ fn brace_lateral(root: &Area, (x, y): (i32, i32), spring: bool) -> Result<(), Ch
         .map_err(draw_err)?;
     }
     if spring {
-        text(root, "k", (x + 22, y - 6), HPos::Left, VPos::Bottom, style::SMALL)?;
+        text(
+            root,
+            "k",
+            (x + 22, y - 6),
+            HPos::Left,
+            VPos::Bottom,
+            style::SMALL,
+        )?;
     }
     Ok(())
 }
 
 fn brace_twist(root: &Area, (x, y): (i32, i32)) -> Result<(), ChartError> {
-    root.draw(&Circle::new((x, y), 26, BRACE.stroke_width(3))).map_err(draw_err)?;
-    root.draw(&Circle::new((x, y), 33, BRACE.stroke_width(3))).map_err(draw_err)
+    root.draw(&Circle::new((x, y), 26, BRACE.stroke_width(3)))
+        .map_err(draw_err)?;
+    root.draw(&Circle::new((x, y), 33, BRACE.stroke_width(3)))
+        .map_err(draw_err)
 }
 
-fn load_arrow(root: &Area, x: i32, y: i32, fz: f64, len: i32, both: bool) -> Result<(), ChartError> {
+fn load_arrow(
+    root: &Area,
+    x: i32,
+    y: i32,
+    fz: f64,
+    len: i32,
+    both: bool,
+) -> Result<(), ChartError> {
     if fz <= 0.0 {
         arrow(root, (x, y - len), (x, y), LOAD, 6)?;
     } else {
@@ -396,12 +473,25 @@ fn load_arrow(root: &Area, x: i32, y: i32, fz: f64, len: i32, both: bool) -> Res
         // The reversed load, drawn light beside it.
         let x2 = x - 34;
         if fz <= 0.0 {
-            arrow(root, (x2, y), (x2, y - len + 20), LOAD.mix(0.45).to_rgba().into_color(), 4)?;
+            arrow(
+                root,
+                (x2, y),
+                (x2, y - len + 20),
+                LOAD.mix(0.45).to_rgba().into_color(),
+                4,
+            )?;
         } else {
-            arrow(root, (x2, y), (x2, y + len - 20), LOAD.mix(0.45).to_rgba().into_color(), 4)?;
+            arrow(
+                root,
+                (x2, y),
+                (x2, y + len - 20),
+                LOAD.mix(0.45).to_rgba().into_color(),
+                4,
+            )?;
         }
     }
-    root.draw(&Circle::new((x, y), 9, LOAD.filled())).map_err(draw_err)
+    root.draw(&Circle::new((x, y), 9, LOAD.filled()))
+        .map_err(draw_err)
 }
 
 trait IntoRgb {
@@ -425,13 +515,26 @@ fn moment(root: &Area, (x, y): (i32, i32), dir: i32, v: f64) -> Result<(), Chart
     let pts: Vec<(i32, i32)> = (0..=n)
         .map(|i| {
             let a = std::f64::consts::PI * (0.25 + 1.5 * i as f64 / n as f64) * sgn;
-            (x + (r * a.cos()).round() as i32, y - (r * a.sin()).round() as i32)
+            (
+                x + (r * a.cos()).round() as i32,
+                y - (r * a.sin()).round() as i32,
+            )
         })
         .collect();
-    root.draw(&PathElement::new(pts[..n - 2].to_vec(), LOAD.stroke_width(5)))
-        .map_err(draw_err)?;
+    root.draw(&PathElement::new(
+        pts[..n - 2].to_vec(),
+        LOAD.stroke_width(5),
+    ))
+    .map_err(draw_err)?;
     arrow(root, pts[n - 3], pts[n], LOAD, 5)?;
-    text(root, "M", (x + dir * 58, y - 50), if dir < 0 { HPos::Right } else { HPos::Left }, VPos::Center, TEXT)
+    text(
+        root,
+        "M",
+        (x + dir * 58, y - 50),
+        if dir < 0 { HPos::Right } else { HPos::Left },
+        VPos::Center,
+        TEXT,
+    )
 }
 
 fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
@@ -439,16 +542,31 @@ fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     let xc = 1480;
     let half = 80;
     let (yt, yb) = (g.y(g.flange), g.y(-g.flange));
-    text(root, "section", (xc, 100 + 60), HPos::Center, VPos::Bottom, TEXT)?;
+    text(
+        root,
+        "section",
+        (xc, 100 + 60),
+        HPos::Center,
+        VPos::Bottom,
+        TEXT,
+    )?;
     for y in [yt, yb] {
-        root.draw(&Rectangle::new([(xc - half, y - 8), (xc + half, y + 8)], MEMBER.filled()))
-            .map_err(draw_err)?;
-    }
-    root.draw(&Rectangle::new([(xc - 4, yt), (xc + 4, yb)], MEMBER.filled()))
+        root.draw(&Rectangle::new(
+            [(xc - half, y - 8), (xc + half, y + 8)],
+            MEMBER.filled(),
+        ))
         .map_err(draw_err)?;
+    }
+    root.draw(&Rectangle::new(
+        [(xc - 4, yt), (xc + 4, yb)],
+        MEMBER.filled(),
+    ))
+    .map_err(draw_err)?;
     // Shear centre.
-    root.draw(&Circle::new((xc, g.yc), 11, WHITE.filled())).map_err(draw_err)?;
-    root.draw(&Circle::new((xc, g.yc), 11, INK.stroke_width(3))).map_err(draw_err)?;
+    root.draw(&Circle::new((xc, g.yc), 11, WHITE.filled()))
+        .map_err(draw_err)?;
+    root.draw(&Circle::new((xc, g.yc), 11, INK.stroke_width(3)))
+        .map_err(draw_err)?;
     // Heights, labelled on the right; labels pushed apart where close.
     let mut marks: Vec<(f64, String, RGBColor)> = Vec::new();
     marks.push((g.flange, "top flange".into(), INK));
@@ -465,7 +583,8 @@ fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     for (label, z) in &load_zetas {
         marks.push((*z, label.clone(), LOAD));
         let y = g.y(*z);
-        root.draw(&Circle::new((xc - half - 30, y), 8, LOAD.filled())).map_err(draw_err)?;
+        root.draw(&Circle::new((xc - half - 30, y), 8, LOAD.filled()))
+            .map_err(draw_err)?;
         root.draw(&PathElement::new(
             vec![(xc - half - 30, y), (xc + half + 12, y)],
             LOAD.stroke_width(2),
@@ -480,7 +599,11 @@ fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
         }
     }
     for c in &m.continuous {
-        marks.push((c.zeta, format!("continuous ζ = {}", fmt_tick(c.zeta, 2)), BRACE));
+        marks.push((
+            c.zeta,
+            format!("continuous ζ = {}", fmt_tick(c.zeta, 2)),
+            BRACE,
+        ));
     }
     marks.sort_by(|a, b| b.0.total_cmp(&a.0));
     let mut ys: Vec<i32> = marks.iter().map(|mk| g.y(mk.0)).collect();
@@ -492,8 +615,11 @@ fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     let lx = xc + half + 40;
     for (mk, &ly) in marks.iter().zip(&ys) {
         let y = g.y(mk.0);
-        root.draw(&PathElement::new(vec![(xc + half + 12, y), (lx - 6, ly)], FAINT.stroke_width(2)))
-            .map_err(draw_err)?;
+        root.draw(&PathElement::new(
+            vec![(xc + half + 12, y), (lx - 6, ly)],
+            FAINT.stroke_width(2),
+        ))
+        .map_err(draw_err)?;
         root.draw(&Text::new(
             mk.1.clone(),
             (lx, ly),
@@ -509,9 +635,23 @@ fn table(root: &Area, m: &Member, g: &Geo) -> Result<(), ChartError> {
     let top = 770;
     let row_h = 56;
     let size = TEXT - 2.0;
-    text(root, "out of plane:", (MARGIN, top - 52), HPos::Left, VPos::Center, size)?;
+    text(
+        root,
+        "out of plane:",
+        (MARGIN, top - 52),
+        HPos::Left,
+        VPos::Center,
+        size,
+    )?;
     for (i, r) in ROWS.iter().enumerate() {
-        text(root, r, (MARGIN, top + 30 + row_h * i as i32), HPos::Left, VPos::Center, size)?;
+        text(
+            root,
+            r,
+            (MARGIN, top + 30 + row_h * i as i32),
+            HPos::Left,
+            VPos::Center,
+            size,
+        )?;
     }
     // Column positions: at the member position, pushed apart where close.
     let mut xs: Vec<i32> = cols.iter().map(|c| g.x(c.at)).collect();
@@ -523,10 +663,27 @@ fn table(root: &Area, m: &Member, g: &Geo) -> Result<(), ChartError> {
     let yb = g.y(-g.flange);
     for (c, &x) in cols.iter().zip(&xs) {
         let xm = g.x(c.at);
-        root.draw(&PathElement::new(vec![(xm, yb + 60), (x, top - 90)], FAINT.stroke_width(2)))
-            .map_err(draw_err)?;
-        text(root, &c.heading, (x, top - 86), HPos::Center, VPos::Top, style::SMALL + 2.0)?;
-        text(root, &c.what, (x, top - 56), HPos::Center, VPos::Top, style::SMALL + 2.0)?;
+        root.draw(&PathElement::new(
+            vec![(xm, yb + 60), (x, top - 90)],
+            FAINT.stroke_width(2),
+        ))
+        .map_err(draw_err)?;
+        text(
+            root,
+            &c.heading,
+            (x, top - 86),
+            HPos::Center,
+            VPos::Top,
+            style::SMALL + 2.0,
+        )?;
+        text(
+            root,
+            &c.what,
+            (x, top - 56),
+            HPos::Center,
+            VPos::Top,
+            style::SMALL + 2.0,
+        )?;
         for (i, cell) in c.cells.iter().enumerate() {
             let y = top + 30 + row_h * i as i32;
             glyph(root, (x, y), *cell)?;
@@ -540,15 +697,24 @@ fn glyph(root: &Area, (x, y): (i32, i32), f: Option<Fixity>) -> Result<(), Chart
     match f {
         None => Ok(()),
         Some(f) if f.is_fixed() => root
-            .draw(&Rectangle::new([(x - h, y - h), (x + h, y + h)], HELD.filled()))
+            .draw(&Rectangle::new(
+                [(x - h, y - h), (x + h, y + h)],
+                HELD.filled(),
+            ))
             .map_err(draw_err),
         Some(f) if f.spring().is_some() => {
-            root.draw(&Rectangle::new([(x - h, y - h), (x + h, y + h)], HELD.stroke_width(4)))
-                .map_err(draw_err)?;
+            root.draw(&Rectangle::new(
+                [(x - h, y - h), (x + h, y + h)],
+                HELD.stroke_width(4),
+            ))
+            .map_err(draw_err)?;
             text(root, "k", (x, y), HPos::Center, VPos::Center, TEXT - 4.0)
         }
         Some(_) => root
-            .draw(&PathElement::new(vec![(x - 12, y), (x + 12, y)], FAINT.stroke_width(4)))
+            .draw(&PathElement::new(
+                vec![(x - 12, y), (x + 12, y)],
+                FAINT.stroke_width(4),
+            ))
             .map_err(draw_err),
     }
 }
@@ -583,8 +749,11 @@ fn key(root: &Area) -> Result<(), ChartError> {
             4 => brace_twist(root, (x + 20, y))?,
             5 => arrow(root, (x + 20, y - 26), (x + 20, y + 18), LOAD, 5)?,
             6 => {
-                root.draw(&PathElement::new(vec![(x + 20, y - 24), (x + 20, y + 24)], INK.stroke_width(6)))
-                    .map_err(draw_err)?;
+                root.draw(&PathElement::new(
+                    vec![(x + 20, y - 24), (x + 20, y + 24)],
+                    INK.stroke_width(6),
+                ))
+                .map_err(draw_err)?;
                 for d in [-24, -8, 8] {
                     root.draw(&PathElement::new(
                         vec![(x + 20, y + d + 16), (x + 4, y + d)],

@@ -45,7 +45,7 @@ pub const MARKER: i32 = 11;
 /// Outer margin of every chart, px.
 pub const MARGIN: i32 = 28;
 /// Room for x tick labels and the x axis title, px.
-pub const X_LABEL_AREA: u32 = 130;
+pub const X_LABEL_AREA: u32 = 115;
 /// Room for y tick labels and the y axis title, px.
 pub const Y_LABEL_AREA: u32 = 150;
 /// Width of the legend column right of the plot, px.

@@ -5,12 +5,12 @@
 
 use super::style::{self, FRAME, GRID, HEIGHT, INK, LEGEND_WIDTH, MARGIN, TEXT, WIDTH};
 use super::{
-    Area, ChartError, SMALL_LEADING, anchored, bold, clip_polyline, draw_err, draw_lines,
-    fmt_tick, font, footer_lines, marker, wrap,
+    Area, ChartError, SMALL_LEADING, anchored, bold, clip_polyline, draw_err, draw_lines, fmt_tick,
+    font, footer_lines, marker, wrap,
 };
+use plotters::backend::SVGBackend;
 use plotters::coord::ranged1d::{AsRangedCoord, Ranged, ValueFormatter};
 use plotters::prelude::*;
-use plotters::backend::SVGBackend;
 use plotters::style::text_anchor::{HPos, VPos};
 
 /// One series: points (drawn as markers) and/or a curve (drawn as a line).
@@ -56,8 +56,11 @@ pub struct XyChart {
     pub style_offset: usize,
 }
 
+/// An axis range (from, to).
+pub type Range = (f64, f64);
+
 /// Data range of the chart: (x range, y range).
-pub fn ranges(c: &XyChart) -> Result<((f64, f64), (f64, f64)), ChartError> {
+pub fn ranges(c: &XyChart) -> Result<(Range, Range), ChartError> {
     let mut xs: Vec<f64> = Vec::new();
     let mut ys: Vec<f64> = Vec::new();
     for s in &c.series {
@@ -271,7 +274,7 @@ pub(crate) fn draw_legend(
     y = draw_lines(area, &head, (x, y), &bold(TEXT), TEXT * 1.3)? + 12;
     for (i, s) in series.iter().enumerate() {
         let st = style::series(i + offset);
-        let lines = wrap(&s.label, TEXT, width - 100.0);
+        let lines = wrap(&s.label, TEXT, width - 90.0);
         let yc = y + (TEXT * 0.6) as i32;
         let lw = if s.curve.is_some() {
             style::LINE
@@ -286,7 +289,7 @@ pub(crate) fn draw_legend(
         if !s.points.is_empty() {
             marker(area, (x + 40, yc), st)?;
         }
-        y = draw_lines(area, &lines, (x + 100, y), &font(TEXT), TEXT * 1.25)? + 14;
+        y = draw_lines(area, &lines, (x + 95, y), &font(TEXT), TEXT * 1.25)? + 14;
     }
     if shaded {
         y += 10;
@@ -295,8 +298,56 @@ pub(crate) fn draw_legend(
             style::GRID_LIGHT.mix(0.8).filled(),
         ))
         .map_err(draw_err)?;
-        let lines = wrap("outside the fitted formula's validity range", TEXT, width - 110.0);
+        let lines = wrap(
+            "outside the fitted formula's validity range",
+            TEXT,
+            width - 110.0,
+        );
         y = draw_lines(area, &lines, (x + 110, y), &font(TEXT), TEXT * 1.25)?;
     }
     Ok(y)
+}
+
+/// Units of a resistance chart's axes.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ResistanceUnits {
+    /// Unit of the unbraced length, for example "m".
+    pub length: String,
+    /// Unit of the design resistance, for example "kN·m".
+    pub resistance: String,
+}
+
+/// A resistance chart: design resistance M_b,Rd against the unbraced
+/// length, one curve per section (`sections`: label and sampled
+/// (length, resistance) points, as computed by the resistance stage). The
+/// caller's `notes` name the code, clause and partial factors used.
+pub fn resistance_chart(
+    title: &str,
+    subtitle: &str,
+    sections: Vec<(String, Vec<(f64, f64)>)>,
+    units: &ResistanceUnits,
+    notes: Vec<String>,
+    caution: bool,
+) -> XyChart {
+    XyChart {
+        title: title.into(),
+        subtitle: subtitle.into(),
+        x_label: format!("unbraced length L_{{b}}  ({})", units.length),
+        y_label: format!("design resistance M_{{b,Rd}}  ({})", units.resistance),
+        x_log: false,
+        y_from_zero: true,
+        series: sections
+            .into_iter()
+            .map(|(label, curve)| Series {
+                label,
+                points: Vec::new(),
+                curve: Some(curve),
+            })
+            .collect(),
+        legend_title: "Section".into(),
+        valid_x: None,
+        notes,
+        caution,
+        style_offset: 0,
+    }
 }

@@ -118,18 +118,27 @@ pub fn run_with(
                         continue;
                     }
                     let t = table.as_ref().expect("read above");
-                    family_charts(f, t, k == "family-chart-ratio", src, settings, &mut files, &mut index)?;
+                    family_charts(
+                        f,
+                        t,
+                        k == "family-chart-ratio",
+                        src,
+                        settings,
+                        &mut files,
+                        &mut index,
+                    )?;
                 }
                 "ratio-map" => {
                     let n = ratio_maps(f, src, settings, &mut files, &mut index)?;
                     if n == 0 && explicit {
+                        let why = match &src.check {
+                            None => "no --check folder was given".to_string(),
+                            Some(d) => format!("{} holds no check results for it", d.display()),
+                        };
                         bail!(
-                            "{}: family {} asks for a ratio map but {} holds no check results for it (run `ltb-atlas check` and pass its folder with --check)",
+                            "{}: family {} asks for a ratio map but {why} (run `ltb-atlas check` and pass its --out folder with --check)",
                             ls.origin(),
-                            f.name,
-                            src.check
-                                .as_ref()
-                                .map_or("no --check folder".to_string(), |d| d.display().to_string())
+                            f.name
                         );
                     }
                 }
@@ -338,6 +347,7 @@ fn read_sweep(f: &Family, dir: &Path) -> Result<SweepTable> {
 }
 
 /// Legend text of a ζ axis value.
+#[allow(clippy::redundant_guards)] // comparisons read clearer than float patterns
 fn zeta_label(v: AxisValue) -> String {
     match v {
         AxisValue::Num(x) if x == 0.0 => "ζ = 0 (shear centre)".into(),
@@ -350,6 +360,7 @@ fn zeta_label(v: AxisValue) -> String {
 }
 
 /// Short height label for the section sketch.
+#[allow(clippy::redundant_guards)]
 fn zeta_short(v: AxisValue) -> String {
     match v {
         AxisValue::Num(x) => format!("load ζ = {}", crate::chart::fmt_tick(x, 3)),
@@ -380,7 +391,9 @@ fn is_log(ks: &[f64]) -> bool {
     let geometric = ks
         .windows(2)
         .all(|w| ((w[1] / w[0]) / r0 - 1.0).abs() < 0.02);
-    let arithmetic = ks.windows(2).all(|w| ((w[1] - w[0]) / d0 - 1.0).abs() < 0.02);
+    let arithmetic = ks
+        .windows(2)
+        .all(|w| ((w[1] - w[0]) / d0 - 1.0).abs() < 0.02);
     geometric && !arithmetic
 }
 
@@ -447,10 +460,15 @@ fn fits(dir: Option<&Path>, family: &str, combination: &str) -> Result<Vec<(Stri
     let mut out = Vec::new();
     for n in names {
         let p = dir.join(&n);
-        let text = std::fs::read_to_string(&p).with_context(|| format!("cannot read {}", p.display()))?;
-        let v: Value = serde_json::from_str(&text).with_context(|| format!("{}: not valid JSON", p.display()))?;
+        let text =
+            std::fs::read_to_string(&p).with_context(|| format!("cannot read {}", p.display()))?;
+        let v: Value = serde_json::from_str(&text)
+            .with_context(|| format!("{}: not valid JSON", p.display()))?;
         let fam = v.get("family").and_then(Value::as_str);
-        let comb = v.get("combination").and_then(Value::as_str).unwrap_or("all");
+        let comb = v
+            .get("combination")
+            .and_then(Value::as_str)
+            .unwrap_or("all");
         if fam == Some(family) && comb == combination {
             out.push((n, v));
         }
@@ -516,10 +534,17 @@ fn family_charts(
         }
     }
     let x_log = is_log(&kappa_values(f));
-    let kind = if ratio { "family-chart-ratio" } else { "family-chart" };
+    let kind = if ratio {
+        "family-chart-ratio"
+    } else {
+        "family-chart"
+    };
     for (ci, c) in combos.iter().enumerate() {
         let fit = fits(src.fit.as_deref(), &f.name, &c.name)?;
-        let chosen = fit.iter().find(|(_, v)| v.get("curves").is_some()).or(fit.first());
+        let chosen = fit
+            .iter()
+            .find(|(_, v)| v.get("curves").is_some())
+            .or(fit.first());
         let mut notes = Vec::new();
         let mut any_curve = false;
         let series: Vec<Series> = (0..nz)
@@ -527,7 +552,9 @@ fn family_charts(
                 let curve = chosen.and_then(|(_, v)| fit_curve(v, j, quantity));
                 any_curve |= curve.is_some();
                 Series {
-                    label: zvals.get(j).map_or("loads as given".to_string(), |z| zeta_label(*z)),
+                    label: zvals
+                        .get(j)
+                        .map_or("loads as given".to_string(), |z| zeta_label(*z)),
                     points: pts[ci][j].clone(),
                     curve,
                 }
@@ -539,7 +566,10 @@ fn family_charts(
         }
         let valid = chosen.and_then(|(_, v)| {
             let val = v.get("validity")?;
-            Some((val.get("kappa_min")?.as_f64()?, val.get("kappa_max")?.as_f64()?))
+            Some((
+                val.get("kappa_min")?.as_f64()?,
+                val.get("kappa_max")?.as_f64()?,
+            ))
         });
         match (chosen, any_curve) {
             (Some((n, v)), true) => notes.push(format!(
@@ -564,7 +594,11 @@ fn family_charts(
         let case = case_of(f, c);
         let mut sub = combo_text(c);
         if let Some(r) = root_text(&case.member) {
-            sub = if sub.is_empty() { r } else { format!("{sub}; {r}") };
+            sub = if sub.is_empty() {
+                r
+            } else {
+                format!("{sub}; {r}")
+            };
         }
         let title = if ratio {
             format!("{}: μ_{{cr}}/μ_{{0}} against κ", f.name)
@@ -602,8 +636,16 @@ fn family_charts(
                 "{} of family {} against κ, one curve per load height{}{}.",
                 if ratio { "μcr/μ0" } else { "μcr" },
                 f.name,
-                if sub.is_empty() { String::new() } else { format!(" ({})", plain(&sub)) },
-                if x_log { ", κ on a logarithmic axis" } else { "" }
+                if sub.is_empty() {
+                    String::new()
+                } else {
+                    format!(" ({})", plain(&sub))
+                },
+                if x_log {
+                    ", κ on a logarithmic axis"
+                } else {
+                    ""
+                }
             ),
         });
         files.push((file, svg));
@@ -617,7 +659,11 @@ fn plain(s: &str) -> String {
 }
 
 /// Which combination a check row belongs to, from its axis columns.
-fn match_combination(combos: &[Combination], header: &[String], r: &csv::StringRecord) -> Option<usize> {
+fn match_combination(
+    combos: &[Combination],
+    header: &[String],
+    r: &csv::StringRecord,
+) -> Option<usize> {
     combos.iter().position(|c| {
         c.labels.iter().all(|(col, label)| {
             let Some(i) = header.iter().position(|h| h == col) else {
@@ -658,46 +704,90 @@ fn ratio_maps(
         let (header, rows) = read_csv(&path)?;
         let col = |name: &str| {
             header.iter().position(|h| h == name).ok_or_else(|| {
-                anyhow!("{}: no `{name}` column (expected a rule-check output)", path.display())
+                anyhow!(
+                    "{}: no `{name}` column (expected a rule-check output)",
+                    path.display()
+                )
             })
         };
-        let (kc, zc, rc, vc) = (col("kappa")?, col("zeta")?, col("mcr_ratio")?, col("verdict")?);
+        let (kc, zc, rc, vc) = (
+            col("kappa")?,
+            col("zeta")?,
+            col("mcr_ratio")?,
+            col("verdict")?,
+        );
         let mut cells: Vec<Vec<Cell>> = vec![Vec::new(); combos.len()];
         for (i, r) in rows.iter().enumerate() {
             let at = || format!("{}: data row {}", path.display(), i + 1);
             let ci = match_combination(&combos, &header, r).ok_or_else(|| {
                 anyhow!("{}: its axis values match no combination of family {} (is the check output from another spec?)", at(), f.name)
             })?;
-            let kappa: f64 = r.get(kc).unwrap_or("").parse().map_err(|_| anyhow!("{}: kappa is not a number", at()))?;
-            let zeta: f64 = r.get(zc).unwrap_or("").parse().map_err(|_| anyhow!("{}: zeta is not a number", at()))?;
+            let kappa: f64 = r
+                .get(kc)
+                .unwrap_or("")
+                .parse()
+                .map_err(|_| anyhow!("{}: kappa is not a number", at()))?;
+            let zeta: f64 = r
+                .get(zc)
+                .unwrap_or("")
+                .parse()
+                .map_err(|_| anyhow!("{}: zeta is not a number", at()))?;
             let verdict_text = r.get(vc).unwrap_or("");
             let verdict = Verdict::parse(verdict_text).ok_or_else(|| {
                 anyhow!("{}: verdict \"{verdict_text}\" is not one of conservative, unconservative, indeterminate, not-applicable", at())
             })?;
-            let ratio = r.get(rc).and_then(|s| s.parse::<f64>().ok()).filter(|x| x.is_finite());
-            cells[ci].push(Cell { kappa, zeta, ratio, verdict });
+            let ratio = r
+                .get(rc)
+                .and_then(|s| s.parse::<f64>().ok())
+                .filter(|x| x.is_finite());
+            cells[ci].push(Cell {
+                kappa,
+                zeta,
+                ratio,
+                verdict,
+            });
         }
         // Frontier branches per combination, in file order.
         let fpath = dir.join(format!("{}.{rule}.frontier.csv", f.name));
-        let mut frontier: Vec<BTreeMap<String, Vec<(f64, f64)>>> = vec![BTreeMap::new(); combos.len()];
+        let mut frontier: Vec<BTreeMap<String, Vec<(f64, f64)>>> =
+            vec![BTreeMap::new(); combos.len()];
         let have_frontier = fpath.exists();
         if have_frontier {
             let (fh, frows) = read_csv(&fpath)?;
             let fcol = |name: &str| fh.iter().position(|h| h == name);
-            let (Some(bc), Some(fk), Some(fz)) = (fcol("branch"), fcol("kappa"), fcol("zeta")) else {
+            let (Some(bc), Some(fk), Some(fz)) = (fcol("branch"), fcol("kappa"), fcol("zeta"))
+            else {
                 bail!("{}: expected columns branch, kappa, zeta", fpath.display());
             };
             let cc = fcol("combination");
             for (i, r) in frows.iter().enumerate() {
                 let ci = match cc {
-                    Some(c) => combos.iter().position(|x| Some(x.name.as_str()) == r.get(c)),
+                    Some(c) => combos
+                        .iter()
+                        .position(|x| Some(x.name.as_str()) == r.get(c)),
                     None => Some(0),
                 }
-                .ok_or_else(|| anyhow!("{}: data row {}: unknown combination", fpath.display(), i + 1))?;
-                let (Ok(k), Ok(z)) = (r.get(fk).unwrap_or("").parse::<f64>(), r.get(fz).unwrap_or("").parse::<f64>()) else {
-                    bail!("{}: data row {}: kappa and zeta must be numbers", fpath.display(), i + 1);
+                .ok_or_else(|| {
+                    anyhow!(
+                        "{}: data row {}: unknown combination",
+                        fpath.display(),
+                        i + 1
+                    )
+                })?;
+                let (Ok(k), Ok(z)) = (
+                    r.get(fk).unwrap_or("").parse::<f64>(),
+                    r.get(fz).unwrap_or("").parse::<f64>(),
+                ) else {
+                    bail!(
+                        "{}: data row {}: kappa and zeta must be numbers",
+                        fpath.display(),
+                        i + 1
+                    );
                 };
-                frontier[ci].entry(r.get(bc).unwrap_or("").to_string()).or_default().push((k, z));
+                frontier[ci]
+                    .entry(r.get(bc).unwrap_or("").to_string())
+                    .or_default()
+                    .push((k, z));
             }
         }
         for (ci, c) in combos.iter().enumerate() {
@@ -723,7 +813,8 @@ fn ratio_maps(
                 notes,
                 caution: settings.caution,
             };
-            let svg = ratio_map::render(&map).map_err(|e| anyhow!("family {}, rule {rule}: {e}", f.name))?;
+            let svg = ratio_map::render(&map)
+                .map_err(|e| anyhow!("family {}, rule {rule}: {e}", f.name))?;
             let file = format!("{}.ratio-map.{}.{rule}.svg", f.name, c.name);
             index.push(Entry {
                 file: file.clone(),
@@ -789,12 +880,21 @@ fn schematics(
         let drawn = format!(
             "drawn at κ = {}{}",
             crate::chart::fmt_tick(kappa, 3),
-            ztext.as_ref().map_or(String::new(), |z| format!(", load at {z}"))
+            ztext
+                .as_ref()
+                .map_or(String::new(), |z| format!(", load at {z}"))
         );
-        sub = if sub.is_empty() { drawn } else { format!("{sub}; {drawn}") };
+        sub = if sub.is_empty() {
+            drawn
+        } else {
+            format!("{sub}; {drawn}")
+        };
         let mut notes = Vec::new();
         if !zvals.is_empty() {
-            notes.push("The family varies the load height: every ζ of its axis is marked on the section.".into());
+            notes.push(
+                "The family varies the load height: every ζ of its axis is marked on the section."
+                    .into(),
+            );
         }
         if let Some(r) = root_text(&p.member) {
             notes.push(format!("{}{}.", r[..1].to_uppercase(), &r[1..]));
@@ -839,8 +939,13 @@ fn mode_shapes(
 ) -> Result<()> {
     for c in sweep::combinations(f) {
         let (p, ztext) = representative(f, &c);
-        let sol = crate::solve::solve(&p.member, &opts.settings())
-            .map_err(|e| anyhow!("family {}, {}: the representative case failed: {e}", f.name, c.name))?;
+        let sol = crate::solve::solve(&p.member, &opts.settings()).map_err(|e| {
+            anyhow!(
+                "family {}, {}: the representative case failed: {e}",
+                f.name,
+                c.name
+            )
+        })?;
         let d = &sol.forward;
         let Some(m) = &d.mode else {
             if !opts.quiet {
@@ -859,11 +964,17 @@ fn mode_shapes(
         let flanges = match &case.kind {
             CaseKind::Physical(ph) => {
                 let lat = case.scales.lateral;
-                let (t, b) = (ph.section.top_flange / 1000.0 / lat, ph.section.bottom_flange / 1000.0 / lat);
+                let (t, b) = (
+                    ph.section.top_flange / 1000.0 / lat,
+                    ph.section.bottom_flange / 1000.0 / lat,
+                );
                 if t.is_finite() && b.is_finite() {
                     Some((t, b))
                 } else {
-                    notes.push("Flange heights unknown for this section: only the shear centre is drawn.".into());
+                    notes.push(
+                        "Flange heights unknown for this section: only the shear centre is drawn."
+                            .into(),
+                    );
                     None
                 }
             }
@@ -872,11 +983,21 @@ fn mode_shapes(
                 Some((kappa / PI, -kappa / PI))
             }
         };
-        let dir = if p.direction == Direction::Up { "up" } else { "down" };
-        let mcr = d.mu_cr.map_or(String::new(), |m| format!(", μ_{{cr}} = {}", sweep::round_down(m, d.error_estimate)));
+        let dir = if p.direction == Direction::Up {
+            "up"
+        } else {
+            "down"
+        };
+        let mcr = d.mu_cr.map_or(String::new(), |m| {
+            format!(", μ_{{cr}} = {}", sweep::round_down(m, d.error_estimate))
+        });
         let sub = format!(
             "{}κ = {}{}, loads {dir}{mcr}",
-            if c.labels.is_empty() { String::new() } else { format!("{}; ", combo_text(&c)) },
+            if c.labels.is_empty() {
+                String::new()
+            } else {
+                format!("{}; ", combo_text(&c))
+            },
             crate::chart::fmt_tick(kappa, 3),
             ztext.as_ref().map_or(String::new(), |z| format!(", {z}")),
         );
