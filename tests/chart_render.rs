@@ -329,11 +329,12 @@ fn schematic_marks_each_held_component() {
             .filter(|n| n.attribute("fill") == Some(held.as_str()))
             .count()
     };
-    // Built-in root: four held components (plus the key's swatch).
-    assert_eq!(count(cantilever()), 4 + 1);
+    // Built-in root: four held components (plus the key's held and spring
+    // swatches; a spring is a held-coloured square with a white core).
+    assert_eq!(count(cantilever()), 4 + 2);
     let mut free_warping = cantilever();
     free_warping.start.warping = Fixity::Free;
-    assert_eq!(count(free_warping), 3 + 1);
+    assert_eq!(count(free_warping), 3 + 2);
 }
 
 #[test]
@@ -415,4 +416,54 @@ fn resistance_chart_has_one_curve_per_section() {
             .count();
         assert_eq!(marks, 0);
     }
+}
+
+#[test]
+fn schematic_draws_supports_springs_continuous_restraint_and_end_moments() {
+    use ltb_atlas::model::{ContinuousRestraint, PointSupport};
+    let mut m = Member::new(0.8, Support::FORK, Support::FORK);
+    m.supports.push(PointSupport {
+        at: 0.4,
+        support: Support {
+            warping: Fixity::Spring(2.0),
+            ..Support::FORK
+        },
+    });
+    m.continuous.push(ContinuousRestraint {
+        from: 0.0,
+        to: 1.0,
+        zeta: 0.8,
+        lateral: 5.0,
+        twist: 0.0,
+    });
+    m.restraints.push(Restraint {
+        at: 0.75,
+        zeta: -0.8,
+        lateral: Fixity::Spring(10.0),
+        twist: Fixity::Fixed,
+    });
+    m.loads.push(Load::EndMoments {
+        start: 1.0,
+        end: -0.5,
+    });
+    m.loads.push(Load::Distributed {
+        from: 0.0,
+        to: 1.0,
+        fz_from: -1.0,
+        fz_to: -0.5,
+        zeta: 0.8,
+    });
+    let svg = schematic_of(m.clone());
+    save("schematic-features", &svg);
+    let doc = parse(&svg);
+    let t = texts(&doc);
+    assert!(t.iter().any(|x| x == "continuous lateral spring"));
+    assert_eq!(t.iter().filter(|x| *x == "M").count(), 2, "two end moments");
+    assert!(t.iter().any(|x| x == "x = 0.4L"));
+    assert!(t.iter().any(|x| x == "brace ζ = −0.8"));
+    // Columns: start, support, restraint, end.
+    assert_eq!(schematic::columns(&m).len(), 4);
+    // Springs are marked "k": the support's warping, the brace's lateral
+    // spring (table and elevation), and the key.
+    assert!(t.iter().filter(|x| *x == "k").count() >= 4);
 }

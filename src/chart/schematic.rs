@@ -162,7 +162,7 @@ pub fn render(s: &Schematic) -> Result<String, ChartError> {
     let hmax = hmax.max(flange);
     let g = Geo {
         x0: 470,
-        x1: 1260,
+        x1: 1230,
         yc: 430,
         per_zeta: 165.0 / hmax,
         flange,
@@ -318,9 +318,9 @@ fn elevation(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
         text(
             root,
             what,
-            ((a + b) / 2, y - 16),
+            ((a + b) / 2, y + 18),
             HPos::Center,
-            VPos::Bottom,
+            VPos::Top,
             style::SMALL,
         )?;
     }
@@ -539,8 +539,8 @@ fn moment(root: &Area, (x, y): (i32, i32), dir: i32, v: f64) -> Result<(), Chart
 
 fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
     let m = &s.member;
-    let xc = 1480;
-    let half = 80;
+    let xc = 1400;
+    let half = 70;
     let (yt, yb) = (g.y(g.flange), g.y(-g.flange));
     text(
         root,
@@ -599,11 +599,7 @@ fn section(root: &Area, s: &Schematic, g: &Geo) -> Result<(), ChartError> {
         }
     }
     for c in &m.continuous {
-        marks.push((
-            c.zeta,
-            format!("continuous ζ = {}", fmt_tick(c.zeta, 2)),
-            BRACE,
-        ));
+        marks.push((c.zeta, format!("cont. ζ = {}", fmt_tick(c.zeta, 2)), BRACE));
     }
     marks.sort_by(|a, b| b.0.total_cmp(&a.0));
     let mut ys: Vec<i32> = marks.iter().map(|mk| g.y(mk.0)).collect();
@@ -703,9 +699,16 @@ fn glyph(root: &Area, (x, y): (i32, i32), f: Option<Fixity>) -> Result<(), Chart
             ))
             .map_err(draw_err),
         Some(f) if f.spring().is_some() => {
+            // Outlined square (plotters writes no stroke width for outlined
+            // rectangles, so: a filled square with a white core).
             root.draw(&Rectangle::new(
                 [(x - h, y - h), (x + h, y + h)],
-                HELD.stroke_width(4),
+                HELD.filled(),
+            ))
+            .map_err(draw_err)?;
+            root.draw(&Rectangle::new(
+                [(x - h + 4, y - h + 4), (x + h - 4, y + h - 4)],
+                WHITE.filled(),
             ))
             .map_err(draw_err)?;
             text(root, "k", (x, y), HPos::Center, VPos::Center, TEXT - 4.0)
