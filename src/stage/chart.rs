@@ -443,7 +443,9 @@ fn root_text(m: &crate::model::Member) -> Option<String> {
 
 fn caveat_notes(settings: &Settings) -> Vec<String> {
     if settings.caution {
-        vec![format!("Model: {}.", sweep::CAVEATS)]
+        // The sweep's caveats; on a chart the root condition is in the title lines.
+        let c = sweep::CAVEATS.replace("stated with its case below", "stated with the case above");
+        vec![format!("Model: {c}.")]
     } else {
         Vec::new()
     }
