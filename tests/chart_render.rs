@@ -467,3 +467,15 @@ fn schematic_draws_supports_springs_continuous_restraint_and_end_moments() {
     // spring (table and elevation), and the key.
     assert!(t.iter().filter(|x| *x == "k").count() >= 4);
 }
+
+#[test]
+fn a_single_kappa_still_gets_an_axis() {
+    let mut c = family_chart(true);
+    for s in &mut c.series {
+        s.points.truncate(1);
+        s.curve = None;
+    }
+    let ((x0, x1), _) = xy::ranges(&c).unwrap();
+    assert!(x0 < 0.1 && x1 > 0.1 && x1 / x0 > 2.0);
+    parse(&xy::render(&c).unwrap());
+}

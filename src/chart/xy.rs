@@ -77,11 +77,20 @@ pub fn ranges(c: &XyChart) -> Result<(Range, Range), ChartError> {
     let (mut x0, mut x1) = min_max(&xs);
     let (mut y0, mut y1) = min_max(&ys);
     if c.x_log {
-        let r = (x1 / x0).max(1.0001).powf(0.04);
+        // A single κ (or a narrow range) still gets a readable axis.
+        let r = (x1 / x0)
+            .max(1.0001)
+            .powf(0.04)
+            .max(if x1 / x0 < 1.5 { 1.5 } else { 1.0 });
         x0 /= r;
         x1 *= r;
     } else {
-        let p = ((x1 - x0) * 0.03).max(1e-9);
+        let w = x1 - x0;
+        let p = if w > 1e-9 * x1.abs().max(1.0) {
+            w * 0.03
+        } else {
+            (0.5 * x1.abs()).max(0.1)
+        };
         x0 -= p;
         x1 += p;
     }
