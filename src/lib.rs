@@ -13,6 +13,7 @@
 #![allow(clippy::needless_range_loop, clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod case;
+pub mod chart;
 pub mod eigen;
 pub mod fe;
 pub mod linalg;

@@ -124,6 +124,38 @@ enum Command {
         #[arg(long, conflicts_with = "cache")]
         no_cache: bool,
     },
+    /// Draw the charts of a spec (SVG) from sweep, fit and check outputs.
+    Chart {
+        /// The spec (TOML) the outputs come from.
+        spec: PathBuf,
+        /// Folder of the sweep output.
+        #[arg(long, value_name = "DIR")]
+        sweep: PathBuf,
+        /// Folder of the fit output (fitted curves and validity ranges).
+        #[arg(long, value_name = "DIR")]
+        fit: Option<PathBuf>,
+        /// Folder of the rule-check output (ratio maps).
+        #[arg(long, value_name = "DIR")]
+        check: Option<PathBuf>,
+        /// Output folder (created if needed).
+        #[arg(long)]
+        out: PathBuf,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+        /// Relative error target of the mode-shape solves (default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+        /// Print nothing but errors.
+        #[arg(long)]
+        quiet: bool,
+        /// Result cache folder (accepted for symmetry with the other stages).
+        #[arg(long, value_name = "DIR")]
+        cache: Option<PathBuf>,
+        /// Neither read nor write the cache.
+        #[arg(long, conflicts_with = "cache")]
+        no_cache: bool,
+    },
     /// Combine the shards of a sharded sweep into the files an unsharded run writes.
     Merge {
         /// The sweep spec the shards were run from.
@@ -168,6 +200,24 @@ fn run(cli: Cli) -> Result<ExitCode> {
             &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
         ),
         Command::Merge { spec, out } => merge_cmd(&spec, &out),
+        Command::Chart {
+            spec,
+            sweep,
+            fit,
+            check,
+            out,
+            jobs,
+            tolerance,
+            quiet,
+            cache,
+            no_cache,
+        } => {
+            let opts = stage_options(jobs, tolerance, quiet, false, cache, no_cache);
+            let ls = stage::load_spec(&spec)?;
+            let src = stage::chart::Sources { sweep, fit, check };
+            stage::chart::run(&ls, &src, &out, &opts)?;
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Resistance {
             spec,
             out,

@@ -7,6 +7,8 @@
 pub mod check;
 pub mod resistance;
 
+pub mod chart;
+
 use crate::solve::Settings;
 use crate::sweep::cache::{self, Cache, point_key};
 use crate::sweep::run::{self, Shard, Summary};
