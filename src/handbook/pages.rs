@@ -258,7 +258,7 @@ fn front(inp: &Inputs<'_>) -> String {
         s,
         "#{}\n",
         lit(&format!(
-            "Built by ltb-atlas {} from a handbook spec with SHA-256 {}; every case solved to a relative error target of {}; edition date {}. The build folder's manifest.json lists every file with its SHA-256; `ltb-atlas diff OLD NEW` lists what changed between two editions.",
+            "Built by ltb-atlas {} from a handbook spec with SHA-256 {}; every case solved to a relative error target of {}; edition date {}. The build folder's manifest.json lists every file with its SHA-256; the command ltb-atlas diff OLD NEW lists the table cells, fitted formulas and rule verdicts that changed between two editions.",
             inp.version,
             inp.spec_hash,
             crate::sweep::fmt_num(inp.tolerance),
@@ -296,7 +296,18 @@ fn worked_box(h: &Handbook, c: &Conversion) -> String {
         Units::Si => ("mm⁴", "mm⁶"),
         Units::Us => ("in⁴", "in⁶"),
     };
-    let sig = |x: f64| format!("{:.4e}", x).replace('e', "·10^");
+    let sig = |x: f64| {
+        let t = format!("{:.4e}", x);
+        let (m, e) = t.split_once('e').expect("exponent form");
+        let sup: String = e
+            .chars()
+            .map(|c| match c {
+                '-' => '⁻',
+                d => "⁰¹²³⁴⁵⁶⁷⁸⁹".chars().nth(d.to_digit(10).unwrap_or(0) as usize).unwrap_or(d),
+            })
+            .collect();
+        format!("{m}·10{sup}")
+    };
     let props = format!(
         "Iz = {} {iu4}, It = {} {iu4}, Iw = {} {iu6}, hs = {} {} (computed from the dimensions, fillets included)",
         sig(p.iz * d4),
@@ -326,29 +337,31 @@ fn worked_box(h: &Handbook, c: &Conversion) -> String {
             st = u.stress()
         ))
     );
-    let _ = writeln!(s, "  #grid(columns: (1fr, 1fr), column-gutter: 8pt,");
+    let _ = writeln!(s, "  #table(columns: (auto, auto, auto, 1fr), stroke: none, inset: (x: 4pt, y: 3pt), align: (left, left, right, left),");
+    let _ = writeln!(s, "    table.hline(stroke: 0.4pt), [*quantity*], [*formula*], [*value*], [*note*], table.hline(stroke: 0.4pt),");
     let _ = writeln!(
         s,
-        "    [$ kappa = pi / L sqrt((E I_w) / (G I_t)) = {} $ #text(7pt)[rounded down]],",
+        "    [torsion parameter], [$kappa = pi / L sqrt((E I_w) / (G I_t))$], [*{}*], [rounded down],",
         down(c.kappa, 3)
     );
     let _ = writeln!(
         s,
-        "    [$ M_\"cr\" = mu_\"cr\" dot {} \" {}\" $ #text(7pt)[factor $sqrt(E I_z G I_t) \\/ L$, rounded down]],",
-        down(u.moment_from_knm(c.moment_scale_knm), 2),
-        u.moment()
-    );
-    let _ = writeln!(
-        s,
-        "    [$ zeta_\"top flange\" = (2 a) / h_s kappa = kappa = {} $ #text(7pt)[$a = h_s \\/ 2$, rounded up]],",
+        "    [load on the top-flange centroid], [$zeta = (2 a) / h_s kappa = kappa$], [*{}*], [$a = h_s \\/ 2$; rounded up],",
         up(c.zeta_flange, 3)
     );
     let _ = writeln!(
         s,
-        "    [$ zeta_\"top surface\" = h / h_s kappa = {} kappa = {} $ #text(7pt)[$a = h \\/ 2$, rounded up]],",
+        "    [load on the top surface], [$zeta = h / h_s kappa = {} kappa$], [*{}*], [$a = h \\/ 2$; rounded up],",
         up(ratio, 3),
         up(c.zeta_surface, 3)
     );
+    let _ = writeln!(
+        s,
+        "    [critical moment], [$M_\"cr\" = mu_\"cr\" sqrt(E I_z G I_t) \\/ L$], [*#{}*], [#{}],",
+        lit(&format!("μcr × {} {}", down(u.moment_from_knm(c.moment_scale_knm), 2), u.moment())),
+        lit("factor rounded down")
+    );
+    let _ = writeln!(s, "    table.hline(stroke: 0.4pt),");
     let _ = writeln!(s, "  )");
     let _ = writeln!(
         s,
@@ -387,11 +400,13 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
     for c in charts.iter().filter(|c| c.kind == "schematic") {
         let _ = writeln!(s, "{}", figure(c, "70%"));
     }
-    let _ = writeln!(
-        s,
-        "#text(7.5pt)[#{}]\n",
-        lit(&format!("Base case (before the axes act): {}", crate::report::case_summary(&f.case.member)))
-    );
+    if f.variants.is_empty() {
+        let _ = writeln!(
+            s,
+            "#text(7.5pt)[#{}]\n",
+            lit(&format!("Supports, restraints and loads (dimensionless; the axes below set κ, ζ and the load direction): {}", crate::report::case_summary(&f.case.member)))
+        );
+    }
     for v in &f.variants {
         let _ = writeln!(
             s,

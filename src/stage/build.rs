@@ -293,7 +293,7 @@ pub fn family_tables(
             env!("CARGO_PKG_VERSION")
         ));
         b.push_str(&format!(
-            "# mu_cr = Mcr*L/sqrt(E*Iz*G*It), dimensionless (the same in SI and US units; Mcr in {} follows with E, G in {}, I in {}^4, L in {}); kappa down, zeta across; values rounded down to the digits the error estimate supports; no-buckling = LTB does not govern in this load direction (never unlimited resistance); not-converged / error = no reliable value\n",
+            "# mu_cr = Mcr*L/sqrt(E*Iz*G*It), dimensionless (the same in SI and US units; Mcr = mu_cr*sqrt(E*Iz*G*It)/L in {} with E, G in {}, Iz, It in {}^4 and L in {}, converted consistently); kappa down, zeta across; values rounded down to the digits the error estimate supports; no-buckling = LTB does not govern in this load direction (never unlimited resistance); not-converged / error = no reliable value\n",
             hb.units.moment(),
             hb.units.stress(),
             hb.units.dim(),
