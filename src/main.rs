@@ -179,7 +179,12 @@ fn run(cli: Cli) -> Result<ExitCode> {
             no_cache,
         } => {
             let opts = stage_options(jobs, tolerance, quiet, yes, cache, no_cache);
-            build_cmd(&spec, &out, &opts, stage::build::BuildOptions { typst, date })
+            build_cmd(
+                &spec,
+                &out,
+                &opts,
+                stage::build::BuildOptions { typst, date },
+            )
         }
         Command::Diff {
             old,
@@ -189,7 +194,11 @@ fn run(cli: Cli) -> Result<ExitCode> {
         } => diff_cmd(&old, &new, tolerance, csv.as_deref()),
         Command::Init { dir } => {
             let p = stage::build::init(&dir)?;
-            eprintln!("wrote {}; build it with `ltb-atlas build {} --out DIR`", p.display(), p.display());
+            eprintln!(
+                "wrote {}; build it with `ltb-atlas build {} --out DIR`",
+                p.display(),
+                p.display()
+            );
             Ok(ExitCode::SUCCESS)
         }
     }

@@ -62,7 +62,12 @@ pub fn read_csv(text: &str) -> Result<(Vec<String>, Vec<Vec<String>>), String> {
         .collect();
     let mut rows = Vec::new();
     for rec in r.records() {
-        rows.push(rec.map_err(|e| e.to_string())?.iter().map(String::from).collect());
+        rows.push(
+            rec.map_err(|e| e.to_string())?
+                .iter()
+                .map(String::from)
+                .collect(),
+        );
     }
     Ok((head, rows))
 }
@@ -97,7 +102,9 @@ pub fn diff_table(file: &str, old: &str, new: &str, tol: f64) -> Result<Vec<Chan
             continue;
         };
         for (ci, c) in ho.iter().enumerate().skip(1) {
-            let Some(nj) = hn.iter().position(|x| x == c) else { continue };
+            let Some(nj) = hn.iter().position(|x| x == c) else {
+                continue;
+            };
             let (a, b) = (r.get(ci).map_or("", |s| s), n.get(nj).map_or("", |s| s));
             if moved(a, b, tol) {
                 let note = match (a.parse::<f64>(), b.parse::<f64>()) {
@@ -121,7 +128,11 @@ fn flatten(prefix: &str, v: &Value, out: &mut BTreeMap<String, String>) {
     match v {
         Value::Object(m) => {
             for (k, x) in m {
-                let p = if prefix.is_empty() { k.clone() } else { format!("{prefix}.{k}") };
+                let p = if prefix.is_empty() {
+                    k.clone()
+                } else {
+                    format!("{prefix}.{k}")
+                };
                 flatten(&p, x, out);
             }
         }
@@ -182,14 +193,25 @@ pub fn diff_check(file: &str, old: &str, new: &str, tol: f64) -> Result<Vec<Chan
     let (ho, ro) = read_csv(old).map_err(|e| format!("{file} (old): {e}"))?;
     let (hn, rn) = read_csv(new).map_err(|e| format!("{file} (new): {e}"))?;
     let cols = |h: &[String]| -> Result<(usize, usize, usize), String> {
-        let r = h.iter().position(|c| c == "mcr_ratio").ok_or_else(|| format!("{file}: no mcr_ratio column"))?;
-        let v = h.iter().position(|c| c == "verdict").ok_or_else(|| format!("{file}: no verdict column"))?;
+        let r = h
+            .iter()
+            .position(|c| c == "mcr_ratio")
+            .ok_or_else(|| format!("{file}: no mcr_ratio column"))?;
+        let v = h
+            .iter()
+            .position(|c| c == "verdict")
+            .ok_or_else(|| format!("{file}: no verdict column"))?;
         Ok((r, r, v))
     };
     let (ko, rco, vo) = cols(&ho)?;
     let (kn, rcn, vn) = cols(&hn)?;
     let key = |r: &Vec<String>, k: usize, h: &[String]| -> String {
-        h.iter().zip(r).take(k).map(|(c, v)| format!("{c}={v}")).collect::<Vec<_>>().join(" ")
+        h.iter()
+            .zip(r)
+            .take(k)
+            .map(|(c, v)| format!("{c}={v}"))
+            .collect::<Vec<_>>()
+            .join(" ")
     };
     let nm: BTreeMap<String, &Vec<String>> = rn.iter().map(|r| (key(r, kn, &hn), r)).collect();
     let mut out = Vec::new();
@@ -198,7 +220,15 @@ pub fn diff_check(file: &str, old: &str, new: &str, tol: f64) -> Result<Vec<Chan
         let k = key(r, ko, &ho);
         seen.insert(k.clone());
         let Some(n) = nm.get(&k) else {
-            out.push(Change { kind: "row", file: file.into(), row: k, column: String::new(), old: r.join(" "), new: String::new(), note: "row removed".into() });
+            out.push(Change {
+                kind: "row",
+                file: file.into(),
+                row: k,
+                column: String::new(),
+                old: r.join(" "),
+                new: String::new(),
+                note: "row removed".into(),
+            });
             continue;
         };
         let (a, b) = (r[vo].as_str(), n[vn].as_str());
@@ -208,16 +238,40 @@ pub fn diff_check(file: &str, old: &str, new: &str, tol: f64) -> Result<Vec<Chan
             } else {
                 format!("{a} → {b}")
             };
-            out.push(Change { kind: "verdict", file: file.into(), row: k.clone(), column: "verdict".into(), old: a.into(), new: b.into(), note });
+            out.push(Change {
+                kind: "verdict",
+                file: file.into(),
+                row: k.clone(),
+                column: "verdict".into(),
+                old: a.into(),
+                new: b.into(),
+                note,
+            });
         }
         let (a, b) = (r[rco].as_str(), n[rcn].as_str());
         if moved(a, b, tol) {
-            out.push(Change { kind: "ratio", file: file.into(), row: k, column: "mcr_ratio".into(), old: a.into(), new: b.into(), note: "ratio moved".into() });
+            out.push(Change {
+                kind: "ratio",
+                file: file.into(),
+                row: k,
+                column: "mcr_ratio".into(),
+                old: a.into(),
+                new: b.into(),
+                note: "ratio moved".into(),
+            });
         }
     }
     for (k, r) in &nm {
         if !seen.contains(k) {
-            out.push(Change { kind: "row", file: file.into(), row: k.clone(), column: String::new(), old: String::new(), new: r.join(" "), note: "row added".into() });
+            out.push(Change {
+                kind: "row",
+                file: file.into(),
+                row: k.clone(),
+                column: String::new(),
+                old: String::new(),
+                new: r.join(" "),
+                note: "row added".into(),
+            });
         }
     }
     Ok(out)
@@ -236,7 +290,15 @@ mod tests {
     fn a_moved_cell_is_found_and_a_tolerance_hides_small_moves() {
         let c = diff_table("tables/t.csv", T_OLD, T_NEW, 0.0).unwrap();
         assert_eq!(c.len(), 1);
-        assert_eq!((c[0].row.as_str(), c[0].column.as_str(), c[0].old.as_str(), c[0].new.as_str()), ("0.5", "zeta=kappa", "2.50", "2.40"));
+        assert_eq!(
+            (
+                c[0].row.as_str(),
+                c[0].column.as_str(),
+                c[0].old.as_str(),
+                c[0].new.as_str()
+            ),
+            ("0.5", "zeta=kappa", "2.50", "2.40")
+        );
         assert_eq!(c[0].note, "lower");
         // 0.1/2.5 = 4 %: hidden by a 5 % tolerance, shown by 3 %.
         assert!(diff_table("t", T_OLD, T_NEW, 0.05).unwrap().is_empty());

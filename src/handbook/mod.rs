@@ -47,7 +47,9 @@ const HANDBOOK_KEYS: &[&str] = &[
     "title", "office", "units", "edition", "date", "foreword", "worked", "band", "family",
 ];
 /// Keys of `[[handbook.family]]`.
-const PAGE_KEYS: &[&str] = &["name", "title", "tables", "charts", "fits", "rules", "notes"];
+const PAGE_KEYS: &[&str] = &[
+    "name", "title", "tables", "charts", "fits", "rules", "notes",
+];
 /// Chart kinds of the chart stage's index (the cross-stage contract).
 pub const CHART_KINDS: &[&str] = &[
     "schematic",
@@ -79,7 +81,20 @@ impl Date {
         let m: u32 = s[5..7].parse().ok()?;
         let d: u32 = s[8..10].parse().ok()?;
         let leap = (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-        let days = [31, if leap { 29 } else { 28 }, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+        let days = [
+            31,
+            if leap { 29 } else { 28 },
+            31,
+            30,
+            31,
+            30,
+            31,
+            31,
+            30,
+            31,
+            30,
+            31,
+        ];
         (y >= 1970 && (1..=12).contains(&m) && d >= 1 && d <= days[m as usize - 1])
             .then_some(Date { y, m, d })
     }
@@ -306,7 +321,11 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
     let src = Source { text, origin };
     let root = DeTable::parse(text).map_err(|e| {
         let span = e.span().unwrap_or(0..0);
-        src.error(&span, "", format!("TOML syntax error: {}", e.message().trim()))
+        src.error(
+            &span,
+            "",
+            format!("TOML syntax error: {}", e.message().trim()),
+        )
     })?;
     let top_span = 0..0;
     let top = Tab {
@@ -326,11 +345,15 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
     h.check_keys(HANDBOOK_KEYS, &|_| None)?;
     let need = |k: &str, example: &str| -> Result<String, CaseError> {
         match h.string(k)? {
-            Some((s, v)) if s.trim().is_empty() => {
-                Err(src.error(&v.span, &v.key, format!("`{k}` is empty: write for example {k} = {example}")))
-            }
+            Some((s, v)) if s.trim().is_empty() => Err(src.error(
+                &v.span,
+                &v.key,
+                format!("`{k}` is empty: write for example {k} = {example}"),
+            )),
             Some((s, _)) => Ok(s),
-            None => Err(h.err_here(format!("missing `{k}` in [handbook]: write for example {k} = {example}"))),
+            None => Err(h.err_here(format!(
+                "missing `{k}` in [handbook]: write for example {k} = {example}"
+            ))),
         }
     };
     let title = need("title", "\"Cantilevers and overhangs\"")?;
@@ -366,7 +389,8 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
         })
     };
     let positive = |t: &Tab<'_>, k: &str, default: f64, what: &str| -> Result<f64, CaseError> {
-        Ok(t.num_min(k, Some(default), true, what)?.map_or(default, |n| n.value))
+        Ok(t.num_min(k, Some(default), true, what)?
+            .map_or(default, |n| n.value))
     };
     // Worked conversion.
     let (w_section, w_length) = match h.table("worked")? {
@@ -390,12 +414,20 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
             let mut secs = Vec::new();
             if let Some(v) = b.get("sections") {
                 let DeValue::Array(items) = v.v else {
-                    return Err(src.error(&v.span, &v.key, "expected a list of section names such as [\"IPE 200\", \"HE 300 B\"]"));
+                    return Err(src.error(
+                        &v.span,
+                        &v.key,
+                        "expected a list of section names such as [\"IPE 200\", \"HE 300 B\"]",
+                    ));
                 };
                 for (i, item) in items.iter().enumerate() {
                     let key = format!("{}[{i}]", v.key);
                     let DeValue::String(s) = item.get_ref() else {
-                        return Err(src.error(&item.span(), &key, "expected a section name (a string)"));
+                        return Err(src.error(
+                            &item.span(),
+                            &key,
+                            "expected a section name (a string)",
+                        ));
                     };
                     let val = crate::case::schema::Val {
                         name: "sections".into(),
@@ -407,7 +439,11 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
                     secs.push(section(&b, "sections", s, &val)?);
                 }
                 if secs.is_empty() || secs.len() > 6 {
-                    return Err(src.error(&v.span, &v.key, "give one to six sections (more make the band unreadable)"));
+                    return Err(src.error(
+                        &v.span,
+                        &v.key,
+                        "give one to six sections (more make the band unreadable)",
+                    ));
                 }
             } else {
                 secs = default_band();
@@ -418,11 +454,19 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
             if to <= from {
                 return Err(b.err_at("to", format!("`to` = {to} must exceed `from` = {from}")));
             }
-            Band { sections: secs, from, to }
+            Band {
+                sections: secs,
+                from,
+                to,
+            }
         }
         None => {
             let (from, to) = default_range(units);
-            Band { sections: default_band(), from, to }
+            Band {
+                sections: default_band(),
+                from,
+                to,
+            }
         }
     };
     // Family pages.
@@ -445,7 +489,10 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
         for l in &locs {
             let p = page(&src, l, spec)?;
             if out.iter().any(|q| q.name == p.name) {
-                return Err(l.tab(&src).err_at("name", format!("family \"{}\" has two pages: list it once", p.name)));
+                return Err(l.tab(&src).err_at(
+                    "name",
+                    format!("family \"{}\" has two pages: list it once", p.name),
+                ));
             }
             out.push(p);
         }
@@ -458,7 +505,10 @@ pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook,
         edition,
         date,
         foreword,
-        worked: Worked { section: w_section, length: w_length },
+        worked: Worked {
+            section: w_section,
+            length: w_length,
+        },
         band,
         families,
     })
@@ -521,7 +571,9 @@ fn page(src: &Source<'_>, loc: &TabLoc<'_>, spec: &Spec) -> Result<FamilyPage, C
                 let mut out = Vec::new();
                 for (i, item) in items.iter().enumerate() {
                     match item.get_ref() {
-                        DeValue::String(s) if CHART_KINDS.contains(&s.as_ref()) => out.push(s.to_string()),
+                        DeValue::String(s) if CHART_KINDS.contains(&s.as_ref()) => {
+                            out.push(s.to_string())
+                        }
                         _ => {
                             return Err(src.error(
                                 &item.span(),
@@ -537,7 +589,10 @@ fn page(src: &Source<'_>, loc: &TabLoc<'_>, spec: &Spec) -> Result<FamilyPage, C
                 return Err(src.error(
                     &v.span,
                     &v.key,
-                    format!("`charts` takes true, false or a list of kinds ({})", CHART_KINDS.join(", ")),
+                    format!(
+                        "`charts` takes true, false or a list of kinds ({})",
+                        CHART_KINDS.join(", ")
+                    ),
                 ));
             }
         },
@@ -549,7 +604,11 @@ fn page(src: &Source<'_>, loc: &TabLoc<'_>, spec: &Spec) -> Result<FamilyPage, C
         };
         for (i, item) in items.iter().enumerate() {
             let DeValue::String(s) = item.get_ref() else {
-                return Err(src.error(&item.span(), &format!("{}[{i}]", v.key), "expected a string"));
+                return Err(src.error(
+                    &item.span(),
+                    &format!("{}[{i}]", v.key),
+                    "expected a string",
+                ));
             };
             notes.push(s.to_string());
         }
@@ -616,17 +675,23 @@ at = 1.0
         assert_eq!(h.worked.section.name, "IPE 400");
         assert_eq!(h.families.len(), 1);
         assert_eq!(h.date.unwrap().to_string(), "2026-01-05");
-        let e = parse("[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"2\"\nunits = \"metric\"\n").unwrap_err();
+        let e = parse(
+            "[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"2\"\nunits = \"metric\"\n",
+        )
+        .unwrap_err();
         assert_eq!((e.line, e.key.as_str()), (17, "handbook.units"), "{e}");
         assert!(e.message.contains("\"SI\""), "{e}");
         let e = parse("[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"2\"\n[[handbook.family]]\nname = \"tipp\"\n").unwrap_err();
-        assert_eq!(e.line, 19, "{e}");
+        assert_eq!(e.line, 18, "{e}");
         assert!(e.message.contains("did you mean \"tip\""), "{e}");
         let e = parse("[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"2\"\n[handbook.worked]\nsection = \"IPE 330\"\n").unwrap_err();
         assert!(e.message.contains("IPE 300"), "{e}");
         let e = parse("[handbook]\ntitle = \"T\"\noffice = \"O\"\n").unwrap_err();
         assert!(e.message.contains("missing `edition`"), "{e}");
-        let e = parse("[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"1\"\ndate = \"2026-13-01\"\n").unwrap_err();
+        let e = parse(
+            "[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"1\"\ndate = \"2026-13-01\"\n",
+        )
+        .unwrap_err();
         assert_eq!(e.key, "handbook.date");
     }
 
@@ -638,9 +703,18 @@ at = 1.0
         // κ = (π/3000)·√(210000·0.126e12/(81000·19.9e4)) = 1.3417 and
         // √(E·Iz·G·It)/L = √(210000·604e4·81000·19.9e4)/3000 N·mm = 47.66 kN·m.
         // The table rounds to 3 figures, so agreement within 1 %.
-        let c = convert(&catalogued("IPE 300").unwrap().properties(), 3000.0, E_MPA, G_MPA);
+        let c = convert(
+            &catalogued("IPE 300").unwrap().properties(),
+            3000.0,
+            E_MPA,
+            G_MPA,
+        );
         assert!((c.kappa - 1.3417).abs() / 1.3417 < 0.01, "{}", c.kappa);
-        assert!((c.moment_scale_knm - 47.66).abs() / 47.66 < 0.01, "{}", c.moment_scale_knm);
+        assert!(
+            (c.moment_scale_knm - 47.66).abs() / 47.66 < 0.01,
+            "{}",
+            c.moment_scale_knm
+        );
         // Domain notes: ζ/κ = 2·a/hs, so the top-flange centroid gives ζ = κ
         // and the top surface ζ = κ·h/hs (h = 300, hs = 300 − 10.7).
         assert!((c.zeta_flange / c.kappa - 1.0).abs() < 1e-9);

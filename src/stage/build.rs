@@ -123,9 +123,8 @@ const STEPS: &[(&str, Step)] = &[
 /// `SOURCE_DATE_EPOCH`; never the clock.
 pub fn resolve_date(flag: Option<&str>, hb: &Handbook) -> Result<Date> {
     if let Some(s) = flag {
-        return Date::parse(s).ok_or_else(|| {
-            anyhow!("--date {s}: write YYYY-MM-DD, for example --date 2026-03-02")
-        });
+        return Date::parse(s)
+            .ok_or_else(|| anyhow!("--date {s}: write YYYY-MM-DD, for example --date 2026-03-02"));
     }
     if let Some(d) = hb.date {
         return Ok(d);
@@ -211,7 +210,8 @@ fn prepare(out: &Path) -> Result<()> {
     }
     let old_pdf = out.join("handbook.pdf");
     if old_pdf.exists() {
-        std::fs::remove_file(&old_pdf).with_context(|| format!("cannot remove {}", old_pdf.display()))?;
+        std::fs::remove_file(&old_pdf)
+            .with_context(|| format!("cannot remove {}", old_pdf.display()))?;
     }
     for d in OWNED_DIRS {
         let p = out.join(d);
@@ -274,7 +274,8 @@ pub fn family_tables(
     for combo in combinations(f) {
         let name = format!("{}.{}.table.csv", f.name, combo.name);
         let p = sweep_dir.join(&name);
-        let t = std::fs::read_to_string(&p).with_context(|| format!("cannot read {}", p.display()))?;
+        let t =
+            std::fs::read_to_string(&p).with_context(|| format!("cannot read {}", p.display()))?;
         let (th, trows) = diff::read_csv(&t).map_err(|e| anyhow!("{}: {e}", p.display()))?;
         let mut b = String::new();
         b.push_str(&format!("# {}\n", crate::CAUTION));
@@ -288,7 +289,12 @@ pub fn family_tables(
             if combo.labels.is_empty() {
                 "all cases".to_string()
             } else {
-                combo.labels.iter().map(|(c, v)| format!("{c} = {v}")).collect::<Vec<_>>().join(", ")
+                combo
+                    .labels
+                    .iter()
+                    .map(|(c, v)| format!("{c} = {v}"))
+                    .collect::<Vec<_>>()
+                    .join(", ")
             },
             env!("CARGO_PKG_VERSION")
         ));
@@ -313,12 +319,20 @@ pub fn family_tables(
                 idx[za] = zi - 1;
                 let i = idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
                 let st = rows[i][sc].as_str();
-                line.push(if st.starts_with("error") { "error".into() } else { st.to_string() });
+                line.push(if st.starts_with("error") {
+                    "error".into()
+                } else {
+                    st.to_string()
+                });
             }
             b.push_str(&line.join(","));
             b.push('\n');
         }
-        out.push((combo.labels.clone(), format!("{}.{}.csv", f.name, combo.name), b.into_bytes()));
+        out.push((
+            combo.labels.clone(),
+            format!("{}.{}.csv", f.name, combo.name),
+            b.into_bytes(),
+        ));
     }
     Ok(out)
 }
@@ -349,7 +363,12 @@ pub fn band_csv(hb: &Handbook) -> String {
         let mut row = vec![crate::handbook::units::near(l, 3)];
         let l_print: f64 = row[0].parse().expect("formatted");
         for p in &props {
-            let c = convert(p, u.length_to_m(l_print) * 1000.0, crate::handbook::E_MPA, crate::handbook::G_MPA);
+            let c = convert(
+                p,
+                u.length_to_m(l_print) * 1000.0,
+                crate::handbook::E_MPA,
+                crate::handbook::G_MPA,
+            );
             row.push(crate::handbook::units::down(c.kappa, 3));
         }
         s.push_str(&row.join(","));
@@ -415,12 +434,23 @@ pub fn page_inputs<'a>(cx: &'a Ctx<'_>) -> Result<Inputs<'a>> {
     }
     let mut fits = Vec::new();
     for n in files_ending(&cx.out.join("fit"), ".fit.json") {
-        fits.push((format!("/fit/{n}"), read_json(&cx.out.join("fit").join(&n))?));
+        fits.push((
+            format!("/fit/{n}"),
+            read_json(&cx.out.join("fit").join(&n))?,
+        ));
     }
     let rp = cx.out.join("check").join("rules-summary.json");
-    let rules = if rp.exists() { Some(read_json(&rp)?) } else { None };
+    let rules = if rp.exists() {
+        Some(read_json(&rp)?)
+    } else {
+        None
+    };
     let ip = cx.out.join("charts").join("index.json");
-    let charts = if ip.exists() { Some(read_json(&ip)?) } else { None };
+    let charts = if ip.exists() {
+        Some(read_json(&ip)?)
+    } else {
+        None
+    };
     Ok(Inputs {
         handbook: cx.hb,
         spec: &cx.ls.spec,
@@ -462,11 +492,18 @@ pub fn find_typst(flag: Option<&Path>) -> std::result::Result<PathBuf, String> {
         (None, Some(p)) if !p.is_empty() => (PathBuf::from(p), "TYPST_BIN"),
         _ => match on_path("typst") {
             Some(p) => (p, "PATH"),
-            None => return Err(format!("typst not found (no --typst, no TYPST_BIN, no typst on PATH): {fix}")),
+            None => {
+                return Err(format!(
+                    "typst not found (no --typst, no TYPST_BIN, no typst on PATH): {fix}"
+                ));
+            }
         },
     };
     let out = Command::new(&bin).arg("--version").output().map_err(|e| {
-        format!("typst from {from} ({}) does not run: {e}; {fix}", bin.display())
+        format!(
+            "typst from {from} ({}) does not run: {e}; {fix}",
+            bin.display()
+        )
     })?;
     let v = String::from_utf8_lossy(&out.stdout);
     let version = v.split_whitespace().nth(1).unwrap_or("");
@@ -522,7 +559,12 @@ pub fn walk(dir: &Path) -> Result<Vec<String>> {
                 go(base, &p, out)?;
             } else {
                 let rel = p.strip_prefix(base).expect("under base");
-                out.push(rel.components().map(|c| c.as_os_str().to_string_lossy().into_owned()).collect::<Vec<_>>().join("/"));
+                out.push(
+                    rel.components()
+                        .map(|c| c.as_os_str().to_string_lossy().into_owned())
+                        .collect::<Vec<_>>()
+                        .join("/"),
+                );
             }
         }
         Ok(())
@@ -555,14 +597,19 @@ fn remove_unowned(out: &Path, owned: &BTreeSet<String>) -> Result<()> {
     for f in walk(out)? {
         if !owned.contains(&f) && f != "manifest.json" {
             let p = out.join(&f);
-            std::fs::remove_file(&p).with_context(|| format!("cannot remove the stale {}", p.display()))?;
+            std::fs::remove_file(&p)
+                .with_context(|| format!("cannot remove the stale {}", p.display()))?;
         }
     }
     // Empty folders left behind.
     if let Ok(rd) = std::fs::read_dir(out) {
         for e in rd.flatten() {
             let p = e.path();
-            if p.is_dir() && std::fs::read_dir(&p).map(|mut r| r.next().is_none()).unwrap_or(false) {
+            if p.is_dir()
+                && std::fs::read_dir(&p)
+                    .map(|mut r| r.next().is_none())
+                    .unwrap_or(false)
+            {
                 let _ = std::fs::remove_dir(&p);
             }
         }
@@ -571,7 +618,10 @@ fn remove_unowned(out: &Path, owned: &BTreeSet<String>) -> Result<()> {
 }
 
 fn sha256_hex(bytes: &[u8]) -> String {
-    Sha256::digest(bytes).iter().map(|b| format!("{b:02x}")).collect()
+    Sha256::digest(bytes)
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect()
 }
 
 fn write_manifest(cx: &Ctx<'_>, owned: &BTreeSet<String>, pdf: bool) -> Result<usize> {
@@ -601,7 +651,10 @@ fn write_manifest(cx: &Ctx<'_>, owned: &BTreeSet<String>, pdf: bool) -> Result<u
 /// Compare two build folders: print tables, fits and rule checks. Returns
 /// the changes in a deterministic order (files sorted, then rows).
 pub fn diff_builds(old: &Path, new: &Path, tol: f64) -> Result<Vec<Change>> {
-    anyhow::ensure!(tol >= 0.0 && tol.is_finite(), "--tolerance must be 0 or more, got {tol}");
+    anyhow::ensure!(
+        tol >= 0.0 && tol.is_finite(),
+        "--tolerance must be 0 or more, got {tol}"
+    );
     for d in [old, new] {
         anyhow::ensure!(
             d.join("manifest.json").exists() || d.join("tables").exists(),
@@ -616,7 +669,11 @@ pub fn diff_builds(old: &Path, new: &Path, tol: f64) -> Result<Vec<Change>> {
             .filter(|n| skip.is_empty() || !n.ends_with(skip))
             .collect()
     };
-    for (sub, suffix, skip) in [("tables", ".csv", ""), ("fit", ".fit.json", ""), ("check", ".csv", ".frontier.csv")] {
+    for (sub, suffix, skip) in [
+        ("tables", ".csv", ""),
+        ("fit", ".fit.json", ""),
+        ("check", ".csv", ".frontier.csv"),
+    ] {
         let a: BTreeSet<String> = pick(old, sub, suffix, skip).into_iter().collect();
         let b: BTreeSet<String> = pick(new, sub, suffix, skip).into_iter().collect();
         for n in a.union(&b) {
@@ -627,15 +684,21 @@ pub fn diff_builds(old: &Path, new: &Path, tol: f64) -> Result<Vec<Change>> {
                 (false, true) => out.push(file_change(&rel, "file added")),
                 _ => {
                     let (ta, tb) = (
-                        std::fs::read_to_string(&pa).with_context(|| format!("cannot read {}", pa.display()))?,
-                        std::fs::read_to_string(&pb).with_context(|| format!("cannot read {}", pb.display()))?,
+                        std::fs::read_to_string(&pa)
+                            .with_context(|| format!("cannot read {}", pa.display()))?,
+                        std::fs::read_to_string(&pb)
+                            .with_context(|| format!("cannot read {}", pb.display()))?,
                     );
                     let ch = match sub {
-                        "tables" => diff::diff_table(&rel, &ta, &tb, tol).map_err(|e| anyhow!(e))?,
+                        "tables" => {
+                            diff::diff_table(&rel, &ta, &tb, tol).map_err(|e| anyhow!(e))?
+                        }
                         "fit" => diff::diff_fit(
                             &rel,
-                            &serde_json::from_str(&ta).with_context(|| format!("{} is not JSON", pa.display()))?,
-                            &serde_json::from_str(&tb).with_context(|| format!("{} is not JSON", pb.display()))?,
+                            &serde_json::from_str(&ta)
+                                .with_context(|| format!("{} is not JSON", pa.display()))?,
+                            &serde_json::from_str(&tb)
+                                .with_context(|| format!("{} is not JSON", pb.display()))?,
                             tol,
                         ),
                         _ => diff::diff_check(&rel, &ta, &tb, tol).map_err(|e| anyhow!(e))?,
@@ -669,7 +732,10 @@ pub fn diff_report(old: &Path, new: &Path, changes: &[Change], tol: f64) -> Stri
         crate::sweep::fmt_num(tol),
         crate::CAUTION
     );
-    let flips: Vec<&Change> = changes.iter().filter(|c| c.kind == "verdict" && c.note.starts_with("FLIPPED")).collect();
+    let flips: Vec<&Change> = changes
+        .iter()
+        .filter(|c| c.kind == "verdict" && c.note.starts_with("FLIPPED"))
+        .collect();
     let count = |k: &str| changes.iter().filter(|c| c.kind == k).count();
     s.push_str(&format!(
         "{} table cells moved, {} fit values changed, {} rule verdicts changed ({} conservative → unconservative), {} ratios moved, {} rows and {} files added or removed\n",
@@ -699,7 +765,13 @@ pub fn diff_report(old: &Path, new: &Path, changes: &[Change], tol: f64) -> Stri
             (true, false) => c.column.clone(),
             _ => String::new(),
         };
-        s.push_str(&format!("  [{}] {place}: {} → {} ({})\n", c.kind, show(&c.old), show(&c.new), c.note));
+        s.push_str(&format!(
+            "  [{}] {place}: {} → {} ({})\n",
+            c.kind,
+            show(&c.old),
+            show(&c.new),
+            c.note
+        ));
     }
     if changes.is_empty() {
         s.push_str("no differences\n");
