@@ -184,6 +184,30 @@ pub fn run(spec_path: &Path, out: &Path, opts: &Options, b: &BuildOptions) -> Re
     }
 }
 
+/// Rewrite the typst pages of an existing build folder from the files it
+/// holds now and typeset them into `DIR/handbook.pdf` (no stage runs, the
+/// manifest is left alone): for template work and for tests that place
+/// other stages' contract files by hand.
+pub fn typeset(spec_path: &Path, out: &Path, opts: &Options, b: &BuildOptions) -> Result<PathBuf> {
+    let ls = super::load_spec(spec_path)?;
+    let hb = parse_handbook(&ls.text, &ls.origin(), &ls.spec).map_err(anyhow::Error::new)?;
+    let date = resolve_date(b.date.as_deref(), &hb)?;
+    let mut cx = Ctx {
+        ls: &ls,
+        hb: &hb,
+        out,
+        opts,
+        date,
+        cases: (0, 0),
+    };
+    step_fonts(&mut cx)?;
+    step_pages(&mut cx)?;
+    let typst = find_typst(b.typst.as_deref()).map_err(|e| anyhow::Error::new(TypstMissing(e)))?;
+    let pdf = out.join("handbook.pdf");
+    compile(&typst, out, &pdf, date)?;
+    Ok(pdf)
+}
+
 /// Check that `out` is empty or an earlier build (its manifest says so),
 /// then clear what the build owns so that nothing stale survives.
 fn prepare(out: &Path) -> Result<()> {
