@@ -528,7 +528,7 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
         let _ = writeln!(s, "== Critical moment coefficients μcr");
         let _ = writeln!(
             s,
-            "#text(7.5pt)[#{}]\n",
+            "#block(sticky: true, text(7.5pt)[#{}])\n",
             lit(
                 "μcr = Mcr·L/√(E·Iz·G·It), κ down, ζ across (geometric height above the shear centre). Values rounded down to the digits the error estimate supports. NB: no buckling in that load direction (LTB does not govern; not unlimited resistance). n.c. / —: no reliable value; do not interpolate across it."
             )
@@ -703,7 +703,7 @@ fn fit_box(path: &str, v: &Value) -> String {
             Some(t) => {
                 let _ = writeln!(
                     s,
-                    "  #math.equation(block: true, eval({}, mode: \"math\"))",
+                    "  #text(10.5pt, math.equation(block: true, eval({}, mode: \"math\")))",
                     lit(t)
                 );
             }
@@ -895,21 +895,21 @@ fn rules_table(inp: &Inputs<'_>, entries: &[&Value]) -> String {
     let tol = inp.rules.as_ref().and_then(|r| number(r.get("tolerance")));
     let _ = writeln!(
         s,
-        "#text(7.5pt)[#{}]\n",
+        "#block(sticky: true, text(7.5pt)[#{}])\n",
         lit(&format!(
-            "Ratio = Mcr by the rule ÷ Mcr of these pages (above 1: the rule overestimates, unconservative); largest ratio rounded up. Verdicts use a tolerance of {}.",
+            "Ratio = Mcr by the rule ÷ Mcr of these pages (above 1: the rule overestimates, unconservative); largest ratio and share of unconservative cases rounded up; cases counted as conservative / unconservative / indeterminate / not applicable. Verdicts use a tolerance of {}.",
             tol.map(crate::sweep::fmt_num)
                 .unwrap_or_else(|| "(not stated)".into())
         ))
     );
     let _ = writeln!(
         s,
-        "#table(columns: (auto, auto, 1fr, auto, auto, auto), align: (left, left, left, right, right, right),"
+        "#table(columns: (12%, 14%, 1fr, 19%, 11%, 14%), align: (left, left, left, right, right, right),"
     );
     let _ = writeln!(s, "  fill: (x, y) => if y == 0 {{ pale }},");
     let _ = writeln!(
         s,
-        "  table.header([*rule*], [*combination*], [*clause, edition, source*], [*largest ratio*], [*unconservative share*], [*cons. / uncons. / indet. / n.a.*]),"
+        "  table.header([*rule*], [*combination*], [*clause, edition, source*], [*largest ratio*], [*cases uncons.*], [*cases c / u / i / n.a.*]),"
     );
     for e in entries {
         let at = e.get("at");
@@ -918,7 +918,7 @@ fn rules_table(inp: &Inputs<'_>, entries: &[&Value]) -> String {
             number(at.and_then(|a| a.get("zeta"))),
         ) {
             (Some(k), Some(z)) => format!(
-                " at κ = {}, ζ = {}",
+                "\nat κ = {}, ζ = {}",
                 crate::sweep::fmt_num(k),
                 crate::sweep::fmt_num(z)
             ),
@@ -1180,7 +1180,7 @@ date = "2026-01-05"
         assert!(!tip.contains("SHOULD_NOT_APPEAR"));
         assert!(tip.contains("largest relative error 30.00 %"), "{tip}");
         // Rules: only this family's entry; ratio rounded up and flagged.
-        assert!(tip.contains("1.235 at κ = 0.5, ζ = 0.5"), "{tip}");
+        assert!(tip.contains("1.235\\nat κ = 0.5, ζ = 0.5"), "{tip}");
         assert!(tip.contains("3 / 1 / 0 / 0"));
         assert!(tip.contains("25.00 %"));
         assert!(!tip.contains("0.900"));
