@@ -45,8 +45,8 @@ pub struct Inputs<'a> {
     pub tolerance: f64,
     /// Edition date (YYYY-MM-DD).
     pub date: String,
-    /// Print tables: (family, combination labels (column, value), path under the build folder).
-    pub tables: Vec<(String, Vec<(String, String)>, String)>,
+    /// Print tables of the build.
+    pub tables: Vec<TableRef>,
     /// Path of the κ band CSV under the build folder.
     pub band_csv: String,
     /// Fit stage JSON files: (path under the build folder, contents).
@@ -55,6 +55,17 @@ pub struct Inputs<'a> {
     pub rules: Option<Value>,
     /// `charts/index.json`, if present.
     pub charts: Option<Value>,
+}
+
+/// A print table of the build folder.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TableRef {
+    /// Family name.
+    pub family: String,
+    /// The combination's labels: (column, value as written).
+    pub labels: Vec<(String, String)>,
+    /// Path under the build folder, for example `/tables/f.down.csv`.
+    pub path: String,
 }
 
 /// A typst string literal (safe to place after `#` or as an argument).
@@ -523,7 +534,7 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
         }
     }
     // Tables.
-    let tables: Vec<_> = inp.tables.iter().filter(|t| t.0 == f.name).collect();
+    let tables: Vec<_> = inp.tables.iter().filter(|t| t.family == f.name).collect();
     if p.tables && !tables.is_empty() {
         let _ = writeln!(s, "== Critical moment coefficients μcr");
         let _ = writeln!(
@@ -533,12 +544,12 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
                 "μcr = Mcr·L/√(E·Iz·G·It), κ down, ζ across (geometric height above the shear centre). Values rounded down to the digits the error estimate supports. NB: no buckling in that load direction (LTB does not govern; not unlimited resistance). n.c. / —: no reliable value; do not interpolate across it."
             )
         );
-        for (_, labels, path) in tables {
+        for t in tables {
             let _ = writeln!(
                 s,
                 "#coef-table({}, [#{}])",
-                lit(path),
-                lit(&format!("μcr, {}: {}", f.name, combo_text(labels)))
+                lit(&t.path),
+                lit(&format!("μcr, {}: {}", f.name, combo_text(&t.labels)))
             );
         }
     }
@@ -1023,14 +1034,14 @@ date = "2026-01-05"
             spec_hash: "abcdef0123456789abcdef",
             tolerance: 1e-4,
             date: "2026-01-05".into(),
-            tables: vec![(
-                "tip".into(),
-                vec![
+            tables: vec![TableRef {
+                family: "tip".into(),
+                labels: vec![
                     ("direction".into(), "down".into()),
                     ("variant".into(), "root-fixed".into()),
                 ],
-                "/tables/tip.down_root-fixed.csv".into(),
-            )],
+                path: "/tables/tip.down_root-fixed.csv".into(),
+            }],
             band_csv: "/tables/kappa-length.csv".into(),
             fits: Vec::new(),
             rules: None,

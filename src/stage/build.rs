@@ -265,14 +265,13 @@ fn axis_len(a: &Axis) -> usize {
 
 /// Print tables of one family: the sweep's print tables (values already
 /// rounded down) with every "not-ok" cell replaced by the case's status
-/// from the family CSV (no-buckling, not-converged, error). Returns
-/// (combination labels, file name, bytes).
+/// from the family CSV (no-buckling, not-converged, error).
 pub fn family_tables(
     f: &Family,
     sweep_dir: &Path,
     hb: &Handbook,
     spec_hash: &str,
-) -> Result<Vec<(Vec<(String, String)>, String, Vec<u8>)>> {
+) -> Result<Vec<PrintTable>> {
     let ka = f.axes.iter().position(|a| matches!(a, Axis::Kappa(_)));
     let za = f.axes.iter().position(|a| matches!(a, Axis::Zeta(_)));
     let (Some(ka), Some(za)) = (ka, za) else {
@@ -352,13 +351,24 @@ pub fn family_tables(
             b.push_str(&line.join(","));
             b.push('\n');
         }
-        out.push((
-            combo.labels.clone(),
-            format!("{}.{}.csv", f.name, combo.name),
-            b.into_bytes(),
-        ));
+        out.push(PrintTable {
+            labels: combo.labels.clone(),
+            name: format!("{}.{}.csv", f.name, combo.name),
+            bytes: b.into_bytes(),
+        });
     }
     Ok(out)
+}
+
+/// One print table of a family.
+#[derive(Debug, Clone)]
+pub struct PrintTable {
+    /// The combination's labels (column, value as written).
+    pub labels: Vec<(String, String)>,
+    /// File name under `DIR/tables/`.
+    pub name: String,
+    /// Contents.
+    pub bytes: Vec<u8>,
 }
 
 /// The κ band: κ of each band section at lengths from `from` to `to` (print units).
@@ -414,8 +424,8 @@ fn table_families<'a>(cx: &'a Ctx<'_>) -> Vec<&'a Family> {
 fn step_tables(cx: &mut Ctx<'_>) -> Result<()> {
     let dir = cx.out.join("tables");
     for f in table_families(cx) {
-        for (_, name, bytes) in family_tables(f, &cx.out.join("sweep"), cx.hb, &cx.ls.hash)? {
-            write_atomic(&dir.join(name), &bytes)?;
+        for t in family_tables(f, &cx.out.join("sweep"), cx.hb, &cx.ls.hash)? {
+            write_atomic(&dir.join(t.name), &t.bytes)?;
         }
     }
     write_atomic(&dir.join("kappa-length.csv"), band_csv(cx.hb).as_bytes())
@@ -452,8 +462,12 @@ fn files_ending(dir: &Path, suffix: &str) -> Vec<String> {
 pub fn page_inputs<'a>(cx: &'a Ctx<'_>) -> Result<Inputs<'a>> {
     let mut tables = Vec::new();
     for f in table_families(cx) {
-        for (labels, name, _) in family_tables(f, &cx.out.join("sweep"), cx.hb, &cx.ls.hash)? {
-            tables.push((f.name.clone(), labels, format!("/tables/{name}")));
+        for t in family_tables(f, &cx.out.join("sweep"), cx.hb, &cx.ls.hash)? {
+            tables.push(pages::TableRef {
+                family: f.name.clone(),
+                labels: t.labels,
+                path: format!("/tables/{}", t.name),
+            });
         }
     }
     let mut fits = Vec::new();
