@@ -541,7 +541,7 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
             s,
             "#block(sticky: true, text(7.5pt)[#{}])\n",
             lit(
-                "μcr = Mcr·L/√(E·Iz·G·It), κ down, ζ across (geometric height above the shear centre). Values rounded down to the digits the error estimate supports. NB: no buckling in that load direction (LTB does not govern; not unlimited resistance). n.c. / —: no reliable value; do not interpolate across it."
+                "μcr = Mcr·L/√(E·Iz·G·It), κ down, ζ across (geometric height above the shear centre; \"top flange\" and \"bottom flange\" are the flange centroids, ζ = ±κ; a load on the top surface sits at (h/hs)·κ). Values rounded down to the digits the error estimate supports. NB: no buckling in that load direction (LTB does not govern; not unlimited resistance). n.c. / —: no reliable value; do not interpolate across it."
             )
         );
         for t in tables {
@@ -587,7 +587,13 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
     for n in &p.notes {
         let _ = writeln!(s, "- #{}", lit(n));
     }
-    let _ = writeln!(s, "- #{}", lit(crate::sweep::CAVEATS));
+    let caveats = crate::sweep::CAVEATS;
+    let mut cs = caveats.chars();
+    let caveats: String = cs
+        .next()
+        .map(|c| c.to_uppercase().chain(cs).collect())
+        .unwrap_or_default();
+    let _ = writeln!(s, "- #{}", lit(&format!("{caveats}.")));
     let _ = writeln!(s, "- #{}", lit(crate::CAUTION));
     s
 }
