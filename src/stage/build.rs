@@ -850,3 +850,67 @@ pub fn init(dir: &Path) -> Result<PathBuf> {
     write_atomic(&p, STARTER.as_bytes())?;
     Ok(p)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::handbook::parse_handbook;
+    use crate::sweep::spec::parse_spec;
+
+    #[test]
+    fn not_ok_cells_of_print_tables_name_the_case_status() {
+        // TEST DATA: a hand-made sweep folder in the sweep stage's formats
+        // (family CSV with a status column in grid order, print table with
+        // "not-ok" cells); values invented.
+        let text = "[[family]]\nname = \"f\"\nkappa = [0.5, 1.0]\nzeta = [0.0, 1.0]\n[family.case]\nstart = { preset = \"fork\" }\nend = { preset = \"fork\" }\n[[family.case.load]]\nkind = \"uniform\"\n[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"1\"\n";
+        let spec = parse_spec(text, "t.toml", Path::new(".")).unwrap();
+        let hb = parse_handbook(text, "t.toml", &spec).unwrap();
+        let dir = tempfile::tempdir().unwrap();
+        std::fs::write(
+            dir.path().join("f.csv"),
+            "# c\nkappa,zeta,direction,mu_cr,mu_ratio,le_over_l,load_factor,error_estimate,elements,status\n\
+             0.5,0,down,3.5,1,1,1,1e-5,8,ok\n0.5,1,down,,,,,,8,no-buckling\n1,0,down,4.4,1,1,1,1e-5,8,ok\n1,1,down,,,,,,8,error: singular\n",
+        )
+        .unwrap();
+        std::fs::write(
+            dir.path().join("f.all.table.csv"),
+            "# c\nkappa,zeta=0,zeta=1\n0.5,3.49,not-ok\n1,4.39,not-ok\n",
+        )
+        .unwrap();
+        let t = family_tables(&spec.families[0], dir.path(), &hb, "h").unwrap();
+        assert_eq!(t.len(), 1);
+        assert_eq!(t[0].name, "f.all.csv");
+        let s = String::from_utf8(t[0].bytes.clone()).unwrap();
+        assert!(
+            s.ends_with("kappa,zeta=0,zeta=1\n0.5,3.49,no-buckling\n1,4.39,error\n"),
+            "{s}"
+        );
+        assert!(s.starts_with(&format!("# {}", crate::CAUTION)));
+    }
+
+    #[test]
+    fn the_band_lists_kappa_falling_with_length() {
+        let text = "[[family]]\nname = \"f\"\nkappa = [0.5]\n[family.case]\nstart = { preset = \"fork\" }\nend = { preset = \"fork\" }\n[[family.case.load]]\nkind = \"uniform\"\n[handbook]\ntitle = \"T\"\noffice = \"O\"\nedition = \"1\"\nunits = \"US\"\n[handbook.band]\nsections = [\"IPE 300\"]\nfrom = 5.0\nto = 20.0\n";
+        let spec = parse_spec(text, "t.toml", Path::new(".")).unwrap();
+        let hb = parse_handbook(text, "t.toml", &spec).unwrap();
+        let b = band_csv(&hb);
+        let rows: Vec<Vec<f64>> = b
+            .lines()
+            .filter(|l| !l.starts_with('#') && !l.starts_with("length"))
+            .map(|l| l.split(',').map(|x| x.parse().unwrap()).collect())
+            .collect();
+        assert!(b.contains("length_ft,IPE 300"));
+        assert_eq!(rows.first().unwrap()[0], 5.0);
+        assert_eq!(rows.last().unwrap()[0], 20.0);
+        // κ·L is a section constant: π·√(E·Iw/(G·It)) = π·1281 mm for IPE 300
+        // with the [OB-UK] table's Iw = 0.126 dm⁶ and It = 19.9 cm⁴ (hand
+        // calculation; 1 % for the table's 3 figures); 5 ft = 1524 mm.
+        let k = rows[0][1];
+        assert!(
+            (k * 1524.0 - std::f64::consts::PI * 1281.2).abs() / (std::f64::consts::PI * 1281.2)
+                < 0.01,
+            "{k}"
+        );
+        assert!(rows.windows(2).all(|w| w[1][1] <= w[0][1]));
+    }
+}
