@@ -16,6 +16,7 @@ pub mod case;
 pub mod chart;
 pub mod eigen;
 pub mod fe;
+pub mod handbook;
 pub mod linalg;
 pub mod model;
 pub mod report;

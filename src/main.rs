@@ -156,6 +156,56 @@ enum Command {
         #[arg(long, conflicts_with = "cache")]
         no_cache: bool,
     },
+    /// Build a handbook: sweep tables, print tables, typst pages and the PDF, with a manifest.
+    Build {
+        /// Handbook spec (TOML): a sweep spec plus a [handbook] table.
+        spec: PathBuf,
+        /// Build folder (created; an earlier build there is replaced).
+        #[arg(long)]
+        out: PathBuf,
+        /// typst 0.15.1 binary (default: $TYPST_BIN, else typst on PATH).
+        #[arg(long, value_name = "PATH")]
+        typst: Option<PathBuf>,
+        /// Edition date YYYY-MM-DD (default: the spec's date, else $SOURCE_DATE_EPOCH).
+        #[arg(long, value_name = "YYYY-MM-DD")]
+        date: Option<String>,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+        /// Relative error target of every solve (default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+        /// Print nothing but errors.
+        #[arg(long)]
+        quiet: bool,
+        /// Run grids larger than the size threshold without asking.
+        #[arg(long)]
+        yes: bool,
+        /// Result cache folder.
+        #[arg(long, value_name = "DIR")]
+        cache: Option<PathBuf>,
+        /// Solve every case afresh, neither reading nor writing the cache.
+        #[arg(long, conflicts_with = "cache")]
+        no_cache: bool,
+    },
+    /// Compare two handbook builds: moved table cells, changed fits, flipped rule verdicts.
+    Diff {
+        /// The older build folder.
+        old: PathBuf,
+        /// The newer build folder.
+        new: PathBuf,
+        /// Relative change below which numbers count as equal (default 0: any change).
+        #[arg(long, default_value_t = 0.0)]
+        tolerance: f64,
+        /// Also write the changes to this CSV file.
+        #[arg(long, value_name = "FILE.csv")]
+        csv: Option<PathBuf>,
+    },
+    /// Write a starter handbook spec, with comments on every setting, into DIR/handbook.toml.
+    Init {
+        /// Folder to write into (created if needed).
+        dir: PathBuf,
+    },
     /// Combine the shards of a sharded sweep into the files an unsharded run writes.
     Merge {
         /// The sweep spec the shards were run from.
@@ -200,6 +250,41 @@ fn run(cli: Cli) -> Result<ExitCode> {
             &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
         ),
         Command::Merge { spec, out } => merge_cmd(&spec, &out),
+        Command::Build {
+            spec,
+            out,
+            typst,
+            date,
+            jobs,
+            tolerance,
+            quiet,
+            yes,
+            cache,
+            no_cache,
+        } => {
+            let opts = stage_options(jobs, tolerance, quiet, yes, cache, no_cache);
+            build_cmd(
+                &spec,
+                &out,
+                &opts,
+                stage::build::BuildOptions { typst, date },
+            )
+        }
+        Command::Diff {
+            old,
+            new,
+            tolerance,
+            csv,
+        } => diff_cmd(&old, &new, tolerance, csv.as_deref()),
+        Command::Init { dir } => {
+            let p = stage::build::init(&dir)?;
+            eprintln!(
+                "wrote {}; build it with `ltb-atlas build {} --out DIR`",
+                p.display(),
+                p.display()
+            );
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Chart {
             spec,
             sweep,
@@ -446,5 +531,42 @@ fn merge_cmd(spec_path: &Path, out: &Path) -> Result<ExitCode> {
         ExitCode::from(1)
     } else {
         ExitCode::SUCCESS
+    })
+}
+
+fn build_cmd(
+    spec: &Path,
+    out: &Path,
+    opts: &stage::Options,
+    b: stage::build::BuildOptions,
+) -> Result<ExitCode> {
+    let s = stage::build::run(spec, out, opts, &b)?;
+    if !opts.quiet {
+        eprintln!(
+            "{} cases ({} not ok); {} files; handbook: {}",
+            s.cases,
+            s.failed,
+            s.files,
+            s.pdf.as_deref().unwrap_or(out).display()
+        );
+    }
+    Ok(if s.failed > 0 {
+        ExitCode::from(1)
+    } else {
+        ExitCode::SUCCESS
+    })
+}
+
+/// Exit 0 when the builds agree, 1 when they differ.
+fn diff_cmd(old: &Path, new: &Path, tol: f64, csv: Option<&Path>) -> Result<ExitCode> {
+    let changes = stage::build::diff_builds(old, new, tol)?;
+    if let Some(p) = csv {
+        stage::write_atomic(p, &stage::build::diff_csv(&changes)?)?;
+    }
+    print!("{}", stage::build::diff_report(old, new, &changes, tol));
+    Ok(if changes.is_empty() {
+        ExitCode::SUCCESS
+    } else {
+        ExitCode::from(1)
     })
 }

@@ -19,6 +19,8 @@ use rayon::prelude::*;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
+pub mod build;
+
 /// Where solved cases are remembered between runs.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub enum CacheChoice {
