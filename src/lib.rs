@@ -15,6 +15,7 @@
 pub mod case;
 pub mod eigen;
 pub mod fe;
+pub mod fit;
 pub mod linalg;
 pub mod model;
 pub mod report;

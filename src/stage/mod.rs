@@ -4,6 +4,8 @@
 //! exit codes. Errors here carry their context as text (`anyhow`), the
 //! numerics below keep typed errors.
 
+pub mod fit;
+
 use crate::solve::Settings;
 use crate::sweep::cache::{self, Cache, key};
 use crate::sweep::run::{self, Shard, Summary};
