@@ -106,7 +106,11 @@ fn convert(n: &Node<DefaultNumericTypes>, params: &[String]) -> Result<Expr, Fit
             .and_then(|c| convert(c, params))
             .map(Box::new)
     };
-    let bad = |what: &str| FitError::Expression(format!("{what} is not accepted; use numbers, kappa, zeta, pi, the parameters, + - * / ^, parentheses and sqrt, ln, exp, abs"));
+    let bad = |what: &str| {
+        FitError::Expression(format!(
+            "{what} is not accepted; use numbers, kappa, zeta, pi, the parameters, + - * / ^, parentheses and sqrt, ln, exp, abs"
+        ))
+    };
     Ok(match n.operator() {
         Operator::RootNode => {
             if ch.len() != 1 {

@@ -549,12 +549,7 @@ fn sorted_unique(mut v: Vec<f64>) -> Vec<f64> {
 /// ```
 pub fn validation_points(domain: &Domain, samples: &[Sample], density: usize) -> Vec<(f64, f64)> {
     let ks = sorted_unique(samples.iter().map(|s| s.kappa.ln()).collect());
-    let zs = sorted_unique(
-        samples
-            .iter()
-            .map(|s| domain.z(s.kappa, s.zeta))
-            .collect(),
-    );
+    let zs = sorted_unique(samples.iter().map(|s| domain.z(s.kappa, s.zeta)).collect());
     let m = density.max(1);
     let mut out = Vec::new();
     let subs = |v: &[f64]| -> Vec<f64> {
@@ -622,12 +617,7 @@ pub fn validate<E>(
     checks.extend(val.iter().copied());
     // Local search around the worst validation (and grid) points.
     let ks = sorted_unique(samples.iter().map(|s| s.kappa.ln()).collect());
-    let zs = sorted_unique(
-        samples
-            .iter()
-            .map(|s| domain.z(s.kappa, s.zeta))
-            .collect(),
-    );
+    let zs = sorted_unique(samples.iter().map(|s| domain.z(s.kappa, s.zeta)).collect());
     let spacing = |v: &[f64], x: f64| -> f64 {
         let mut h = f64::INFINITY;
         for w in v.windows(2) {

@@ -272,7 +272,11 @@ impl SurfaceModel {
             } else {
                 format!("({x} - {})", typst_num(sh))
             };
-            format!("{num} / {}", typst_num(&t.scale.text))
+            if t.scale.value == 1.0 {
+                num
+            } else {
+                format!("{num} / {}", typst_num(&t.scale.text))
+            }
         };
         s.push_str(&format!(
             ", quad mu_0 = pi sqrt(1 + kappa^2), quad u = {}, quad v = {}",

@@ -231,9 +231,7 @@ fn form_of(s: &str) -> Option<Form> {
 fn fit_table(src: &Source<'_>, t: &Tab<'_>) -> Result<FitSpec, CaseError> {
     t.check_keys(FIT_KEYS, &|_| None)?;
     let Some((form, _)) = t.choice("form", &FORMS, "fit form")? else {
-        return Err(t.err_here(
-            "missing `form`: one of \"surface\", \"c-curves\", \"expression\"",
-        ));
+        return Err(t.err_here("missing `form`: one of \"surface\", \"c-curves\", \"expression\""));
     };
     let mut s = FitSpec::new(form_of(form).expect("listed"));
     if let Some((n, v)) = t.string("name")? {
@@ -305,10 +303,7 @@ fn fit_table(src: &Source<'_>, t: &Tab<'_>) -> Result<FitSpec, CaseError> {
     if s.form != Form::Expression {
         for k in ["expression", "parameters", "quantity"] {
             if t.get(k).is_some() {
-                return Err(t.err_at(
-                    k,
-                    format!("`{k}` belongs to form = \"expression\" only"),
-                ));
+                return Err(t.err_at(k, format!("`{k}` belongs to form = \"expression\" only")));
             }
         }
         return Ok(s);
@@ -466,7 +461,12 @@ fn fit_one(
     excluded: usize,
     engine: &mut fit::Engine<'_, anyhow::Error>,
 ) -> Result<Done> {
-    let ctx = || format!("family {}, fit {}, combination {}", f.name, spec.name, combo.name);
+    let ctx = || {
+        format!(
+            "family {}, fit {}, combination {}",
+            f.name, spec.name, combo.name
+        )
+    };
     let mut details = serde_json::Map::new();
     let mut extra_rows: Vec<Vec<String>> = Vec::new();
     let model = match spec.form {
@@ -492,7 +492,10 @@ fn fit_one(
             details.insert("c2_degree".into(), json!(c.c2.len() - 1));
             details.insert("c1_smoothing_deviation".into(), num(c.c1_smoothing));
             details.insert("c2_smoothing_deviation".into(), num(c.c2_smoothing));
-            details.insert("c3".into(), json!("not fitted: the family does not sweep monosymmetry"));
+            details.insert(
+                "c3".into(),
+                json!("not fitted: the family does not sweep monosymmetry"),
+            );
             let per: Vec<Value> = c
                 .per_kappa
                 .iter()
@@ -516,10 +519,7 @@ fn fit_one(
                 ]);
             }
             details.insert("per_kappa".into(), Value::Array(per));
-            details.insert(
-                "zeta_excluded_below".into(),
-                num(ccurves::ZETA_MIN),
-            );
+            details.insert("zeta_excluded_below".into(), num(ccurves::ZETA_MIN));
             Model::CCurves(c.printed(spec.digits))
         }
         Form::Expression => {
@@ -569,15 +569,21 @@ fn fit_one(
         .iter()
         .map(|(k, v)| (k.clone(), json!(v)))
         .collect();
-    let axes: Vec<String> = f
+    let axes: Vec<String> = f.axes.iter().map(|a| a.column().to_string()).collect();
+    // The case of this combination's variant, if the family has variants.
+    let member = f
         .axes
         .iter()
-        .map(|a| a.column().to_string())
-        .collect();
+        .zip(&combo.index)
+        .find_map(|(a, &ix)| match a {
+            Axis::Variant(v) => Some(&f.variants[v[ix]].case.member),
+            _ => None,
+        })
+        .unwrap_or(&f.case.member);
     let definition = format!(
         "family {}: {}; axes {}; ζ {}",
         f.name,
-        crate::report::case_summary(&f.case.member),
+        crate::report::case_summary(member),
         axes.join(", "),
         if domain.band.is_some() {
             "as multiples of κ (band)"
@@ -731,13 +737,25 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                     .collect())
             };
             for (k, spec) in specs.iter().enumerate() {
-                let d = fit_one(f, combo, single, spec, &domain, &samples, excluded, &mut engine)?;
+                let d = fit_one(
+                    f,
+                    combo,
+                    single,
+                    spec,
+                    &domain,
+                    &samples,
+                    excluded,
+                    &mut engine,
+                )?;
                 if !opts.quiet {
                     eprintln!(
                         "{}: max relative error {:.3} %, max unconservative {:.3} %, rms {:.3} %{}",
                         d.file,
                         100.0 * d.summary["max_rel_error"].as_f64().unwrap_or(0.0),
-                        100.0 * d.summary["max_unconservative_error"].as_f64().unwrap_or(0.0),
+                        100.0
+                            * d.summary["max_unconservative_error"]
+                                .as_f64()
+                                .unwrap_or(0.0),
                         100.0 * d.summary["rms_error"].as_f64().unwrap_or(0.0),
                         if d.summary["design_formula"] == json!(true) {
                             ""
@@ -766,8 +784,16 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 spec.name,
                 spec.form.as_str()
             )?;
+            writeln!(
+                b,
+                "# base case: {}",
+                crate::report::case_summary(&f.case.member)
+            )?;
             if flags[k].is_empty() {
-                writeln!(b, "# every combination is within the unconservative threshold")?;
+                writeln!(
+                    b,
+                    "# every combination is within the unconservative threshold"
+                )?;
             } else {
                 writeln!(
                     b,
@@ -839,9 +865,8 @@ pub fn eval(path: &Path, kappa: f64, zeta: f64, extrapolate: bool) -> Result<Eva
             path.display()
         )
     })?;
-    let domain: Domain = serde_json::from_value(v["validity"].clone()).with_context(|| {
-        format!("{}: no readable `validity`", path.display())
-    })?;
+    let domain: Domain = serde_json::from_value(v["validity"].clone())
+        .with_context(|| format!("{}: no readable `validity`", path.display()))?;
     if !(kappa.is_finite() && zeta.is_finite()) || kappa < 0.0 {
         bail!("--kappa must be a number ≥ 0 and --zeta a number");
     }
@@ -897,6 +922,9 @@ impl Evaluation {
             self.fit["family"].as_str().unwrap_or("?"),
             self.fit["combination"].as_str().unwrap_or("?")
         ));
+        if let Some(d) = self.fit["validity"]["family_definition"].as_str() {
+            s.push_str(&format!("{d}\n"));
+        }
         s.push_str(&format!(
             "kappa = {}, zeta = {}\nmu_cr = {}\nmu_cr/mu0 = {}\n",
             fmt_num(self.kappa),
