@@ -53,6 +53,9 @@ pub struct PerKappa {
     pub c2: f64,
     /// Points used.
     pub points: usize,
+    /// μcr(κ, 0)/μ0 when the grid holds ζ = 0: C1 by its definition in the
+    /// three-factor form.
+    pub c1_at_zeta0: Option<f64>,
     /// Largest relative error of the per-κ fit on those points.
     pub max_rel: f64,
     /// Largest unconservative error (fit above FE) with ζ > 0.
@@ -122,6 +125,10 @@ pub fn fit_at(kappa: f64, pts: &[(f64, f64)]) -> Result<PerKappa, FitError> {
         c1,
         c2,
         points: used.len(),
+        c1_at_zeta0: pts
+            .iter()
+            .find(|(z, _)| *z == 0.0)
+            .map(|&(_, mu)| mu / three_factor(1.0, 0.0, kappa, 0.0)),
         max_rel: 0.0,
         unconservative_zeta_positive: 0.0,
         unconservative_zeta_negative: 0.0,

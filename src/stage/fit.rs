@@ -501,6 +501,7 @@ fn fit_one(
                 .iter()
                 .map(|p| {
                     json!({"kappa": num(p.kappa), "c1": num(p.c1), "c2": num(p.c2), "points": p.points,
+                    "c1_at_zeta0": p.c1_at_zeta0.map_or(Value::Null, num),
                     "max_rel_error": num(p.max_rel),
                     "unconservative_zeta_positive": num(p.unconservative_zeta_positive),
                     "unconservative_zeta_negative": num(p.unconservative_zeta_negative)})
@@ -513,6 +514,9 @@ fn fit_one(
                     fit::print_sig(p.c1, 6),
                     fit::print_sig(p.c2, 6),
                     p.points.to_string(),
+                    p.c1_at_zeta0
+                        .map(|c| fit::print_sig(c, 6))
+                        .unwrap_or_default(),
                     fit::print_sig(p.max_rel, 3),
                     fit::print_sig(p.unconservative_zeta_positive.max(0.0), 3),
                     fit::print_sig(p.unconservative_zeta_negative.max(0.0), 3),
@@ -812,13 +816,13 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 writeln!(b, "# {CAVEATS}")?;
                 writeln!(
                     b,
-                    "# family {}: per-kappa least-squares C1, C2 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + (C2*zeta)^2) - C2*zeta), |zeta| < {} left out; errors relative, fit above the engine counted as unconservative, by side of zeta = 0",
+                    "# family {}: per-kappa least-squares C1, C2 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + (C2*zeta)^2) - C2*zeta), |zeta| < {} left out; c1_at_zeta0 = mu_cr(kappa, 0)/(pi*sqrt(1 + kappa^2)) where the grid holds zeta = 0; errors relative, fit above the engine counted as unconservative, by side of zeta = 0",
                     f.name,
                     ccurves::ZETA_MIN
                 )?;
                 writeln!(
                     b,
-                    "combination,kappa,c1,c2,points,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative"
+                    "combination,kappa,c1,c2,points,c1_at_zeta0,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative"
                 )?;
                 for r in &extra_rows[k] {
                     writeln!(b, "{}", r.join(","))?;
