@@ -47,8 +47,11 @@ pub fn fold_of(i: usize, k: usize) -> usize {
 
 /// Largest relative error of the fit on held-out points, by k-fold
 /// cross-validation (folds with too few training points are skipped;
-/// infinite when none can be fitted).
-pub fn cv_max_rel(rows: &[Vec<f64>], y: &[f64], k: usize) -> f64 {
+/// infinite when none can be fitted). Rows marked in `always_train` (the
+/// edge of the domain) are never held out: a formula is used only inside
+/// its domain, so held-out points measure interpolation, not
+/// extrapolation beyond the grid.
+pub fn cv_max_rel(rows: &[Vec<f64>], y: &[f64], k: usize, always_train: &[bool]) -> f64 {
     let n = rows.len();
     let m = rows.first().map_or(0, Vec::len);
     let mut worst: f64 = 0.0;
@@ -56,7 +59,7 @@ pub fn cv_max_rel(rows: &[Vec<f64>], y: &[f64], k: usize) -> f64 {
     for fold in 0..k {
         let (mut tr, mut ty, mut te) = (Vec::new(), Vec::new(), Vec::new());
         for i in 0..n {
-            if fold_of(i, k) == fold {
+            if !always_train[i] && fold_of(i, k) == fold {
                 te.push(i);
             } else {
                 tr.push(rows[i].clone());

@@ -8,7 +8,8 @@
 //!
 //! The degrees (p, q) are chosen automatically: candidates in order of
 //! their number of terms, the first whose largest relative error on the fit
-//! grid and on held-out points of a 5-fold cross-validation both meet the
+//! grid and on held-out interior points of a 5-fold cross-validation (the
+//! grid's edge always trains: the formula is used only inside) both meet the
 //! target wins (else the candidate with the smallest cross-validated
 //! error, flagged as missing the target).
 //!
@@ -158,6 +159,20 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
         d.len()
     };
     let (nk, nz) = (distinct(&|x| x.0), distinct(&|x| x.1));
+    // The edge of the grid stays in every training set.
+    let ext = |f: &dyn Fn(&(f64, f64)) -> f64| {
+        let v: Vec<f64> = uv.iter().map(f).collect();
+        (
+            v.iter().copied().fold(f64::INFINITY, f64::min),
+            v.iter().copied().fold(f64::NEG_INFINITY, f64::max),
+        )
+    };
+    let (eu, ev) = (ext(&|x| x.0), ext(&|x| x.1));
+    let near = |a: f64, b: f64| (a - b).abs() < 1e-9;
+    let edge: Vec<bool> = uv
+        .iter()
+        .map(|&(a, b)| near(a, eu.0) || near(a, eu.1) || near(b, ev.0) || near(b, ev.1))
+        .collect();
     let mut cands: Vec<(usize, usize)> = Vec::new();
     for p in 0..=o.max_degree.min(nk.saturating_sub(1)) {
         for q in 0..=o.max_degree.min(nz.saturating_sub(1)) {
@@ -180,7 +195,7 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
             continue;
         };
         let train = max_rel(&rows, &y, &c);
-        let cv = cv_max_rel(&rows, &y, o.folds);
+        let cv = cv_max_rel(&rows, &y, o.folds, &edge);
         let met = train <= o.target && cv <= o.target;
         let f = SurfaceFit {
             p,
