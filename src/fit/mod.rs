@@ -326,12 +326,17 @@ impl Formula {
             Model::CCurves(m) => m.typst(),
             Model::Expression(m) => m.typst()?,
         };
-        Ok(match &self.factor {
-            None => body,
-            Some(f) => format!(
-                "{body}, quad \"multiplied by the safe-side factor\" {}",
-                typst_num(&f.text)
-            ),
+        // A safe-side factor multiplies the right-hand side of the main
+        // equation (up to the first ", quad" of the definitions).
+        Ok(match (&self.factor, body.split_once(" = ")) {
+            (Some(f), Some((lhs, rest))) => {
+                let (rhs, defs) = match rest.find(", quad") {
+                    Some(i) => rest.split_at(i),
+                    None => (rest, ""),
+                };
+                format!("{lhs} = {} dot ({rhs}){defs}", typst_num(&f.text))
+            }
+            _ => body,
         })
     }
 }
