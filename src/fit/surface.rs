@@ -2,12 +2,12 @@
 //! domain, a tensor-product polynomial in scaled, transformed variables:
 //!
 //! ```text
-//! μcr/μ0 ≈ f(κ, ζ) = Σ_{i ≤ p} Σ_{j ≤ q} c_ij · u^i · v^j
+//! μcr/μ0 ≈ f(κ, ζ) = Σ c_ij · u^i · v^j   over i ≤ p, j ≤ q (tensor product) or i + j ≤ n (total degree)
 //! u = (ln κ − a)/b,   v = (z − c)/d,   z = ζ (rectangle) or ζ/κ (band |ζ| ≤ c·κ)
 //! ```
 //!
-//! The degrees (p, q) are chosen automatically: candidates in order of
-//! their number of terms, the first whose largest relative error on the fit
+//! The basis is chosen automatically: tensor-product and total-degree
+//! candidates in order of their number of terms, the first whose largest relative error on the fit
 //! grid and on held-out interior points of a 5-fold cross-validation (the
 //! grid's edge always trains: the formula is used only inside) both meet the
 //! target wins (else the candidate with the smallest cross-validated
@@ -74,13 +74,18 @@ pub struct SurfaceFit {
     pub p: usize,
     /// Degree in v.
     pub q: usize,
+    /// The powers (i, j) of the terms, in order.
+    pub powers: Vec<(usize, usize)>,
+    /// True for a full tensor product (i ≤ p, j ≤ q), false for a total
+    /// degree basis (i + j ≤ max(p, q)).
+    pub tensor: bool,
     /// The transforms.
     pub u: Transform,
     /// The transforms.
     pub v: Transform,
     /// Band domain.
     pub zeta_over_kappa: bool,
-    /// Coefficients c_ij, i-major (i = 0..=p, j = 0..=q), unrounded.
+    /// Coefficients c_ij in the order of `powers`, unrounded.
     pub coefficients: Vec<f64>,
     /// Largest relative error on the fit grid (unrounded).
     pub train_max_rel: f64,
@@ -90,16 +95,12 @@ pub struct SurfaceFit {
     pub target_met: bool,
 }
 
-fn row(u: f64, v: f64, p: usize, q: usize) -> Vec<f64> {
+fn row(u: f64, v: f64, terms: &[(usize, usize)]) -> Vec<f64> {
+    let p = terms.iter().map(|t| t.0).max().unwrap_or(0);
+    let q = terms.iter().map(|t| t.1).max().unwrap_or(0);
     let pu = powers(u, p);
     let pv = powers(v, q);
-    let mut r = Vec::with_capacity((p + 1) * (q + 1));
-    for a in &pu {
-        for b in &pv {
-            r.push(a * b);
-        }
-    }
-    r
+    terms.iter().map(|&(i, j)| pu[i] * pv[j]).collect()
 }
 
 impl SurfaceFit {
@@ -110,23 +111,22 @@ impl SurfaceFit {
         } else {
             zeta
         };
-        let r = row(self.u.apply(kappa.ln()), self.v.apply(z), self.p, self.q);
+        let r = row(self.u.apply(kappa.ln()), self.v.apply(z), &self.powers);
         r.iter().zip(&self.coefficients).map(|(a, b)| a * b).sum()
     }
 
     /// The model with coefficients rounded to `digits` significant digits.
     pub fn printed(&self, digits: usize) -> SurfaceModel {
-        let mut terms = Vec::new();
-        for i in 0..=self.p {
-            for j in 0..=self.q {
-                let c = self.coefficients[i * (self.q + 1) + j];
-                terms.push(Term {
-                    i,
-                    j,
-                    coef: Coef::new(&format!("c{i}{j}"), c, digits),
-                });
-            }
-        }
+        let terms = self
+            .powers
+            .iter()
+            .zip(&self.coefficients)
+            .map(|(&(i, j), &c)| Term {
+                i,
+                j,
+                coef: Coef::new(&format!("c{i}{j}"), c, digits),
+            })
+            .collect();
         SurfaceModel {
             u: self.u.clone(),
             v: self.v.clone(),
@@ -173,24 +173,43 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
         .iter()
         .map(|&(a, b)| near(a, eu.0) || near(a, eu.1) || near(b, ev.0) || near(b, ev.1))
         .collect();
-    let mut cands: Vec<(usize, usize)> = Vec::new();
-    for p in 0..=o.max_degree.min(nk.saturating_sub(1)) {
-        for q in 0..=o.max_degree.min(nz.saturating_sub(1)) {
-            if (p + 1) * (q + 1) < samples.len() {
-                cands.push((p, q));
-            }
+    // Candidates: full tensor products (i ≤ p, j ≤ q) and total-degree
+    // bases (i + j ≤ n), each within the degrees the grid can carry.
+    let (pm, qm) = (
+        o.max_degree.min(nk.saturating_sub(1)),
+        o.max_degree.min(nz.saturating_sub(1)),
+    );
+    let mut cands: Vec<(Vec<(usize, usize)>, bool)> = Vec::new();
+    for p in 0..=pm {
+        for q in 0..=qm {
+            let t: Vec<(usize, usize)> =
+                (0..=p).flat_map(|i| (0..=q).map(move |j| (i, j))).collect();
+            cands.push((t, true));
         }
     }
+    for n in 2..=pm + qm {
+        let t: Vec<(usize, usize)> = (0..=pm)
+            .flat_map(|i| (0..=qm).map(move |j| (i, j)))
+            .filter(|&(i, j)| i + j <= n)
+            .collect();
+        if !cands.iter().any(|(c, _)| *c == t) {
+            cands.push((t, false));
+        }
+    }
+    cands.retain(|(t, _)| t.len() < samples.len());
     if cands.is_empty() {
         return Err(FitError::Data(format!(
             "{} points are too few for a surface; add kappa or zeta values",
             samples.len()
         )));
     }
-    cands.sort_by_key(|&(p, q)| ((p + 1) * (q + 1), p.max(q), p));
+    let degree = |t: &[(usize, usize)]| t.iter().map(|&(i, j)| i + j).max().unwrap_or(0);
+    let pmax = |t: &[(usize, usize)]| t.iter().map(|x| x.0).max().unwrap_or(0);
+    cands.sort_by_key(|(t, tensor)| (t.len(), degree(t), pmax(t), !*tensor));
     let mut best: Option<SurfaceFit> = None;
-    for (p, q) in cands {
-        let rows: Vec<Vec<f64>> = uv.iter().map(|&(a, b)| row(a, b, p, q)).collect();
+    for (terms, tensor) in cands {
+        let rows: Vec<Vec<f64>> = uv.iter().map(|&(a, b)| row(a, b, &terms)).collect();
+        let (p, q) = (pmax(&terms), terms.iter().map(|x| x.1).max().unwrap_or(0));
         let Ok(c) = relative_lsq(&rows, &y) else {
             continue;
         };
@@ -200,6 +219,8 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
         let f = SurfaceFit {
             p,
             q,
+            powers: terms,
+            tensor,
             u: u.clone(),
             v: v.clone(),
             zeta_over_kappa: band,

@@ -479,7 +479,15 @@ fn fit_one(
             let s = surface::fit(samples, domain, o).with_context(ctx)?;
             details.insert("degree_u".into(), json!(s.p));
             details.insert("degree_v".into(), json!(s.q));
-            details.insert("terms".into(), json!((s.p + 1) * (s.q + 1)));
+            details.insert("terms".into(), json!(s.powers.len()));
+            details.insert(
+                "basis".into(),
+                json!(if s.tensor {
+                    "tensor-product"
+                } else {
+                    "total-degree"
+                }),
+            );
             details.insert("train_max_rel_error".into(), num(s.train_max_rel));
             details.insert("cross_validation_max_rel_error".into(), num(s.cv_max_rel));
             details.insert("cross_validation_folds".into(), json!(o.folds));
