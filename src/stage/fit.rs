@@ -559,9 +559,16 @@ fn fit_one(
         density: spec.validation,
         ..Default::default()
     };
+    // Cases the engine could not solve are left out of the bound: count them.
+    let mut failed = 0usize;
     let mut checks: Vec<Check> = {
         let compiled = formula.compile().with_context(ctx)?;
-        fit::validate(&compiled, domain, samples, vs, engine)?
+        let mut counting = |pts: &[(f64, f64)]| -> Result<Vec<Option<(f64, f64)>>> {
+            let r = engine(pts)?;
+            failed += r.iter().filter(|x| x.is_none()).count();
+            Ok(r)
+        };
+        fit::validate(&compiled, domain, samples, vs, &mut counting)?
     };
     let mut conservative = Value::Null;
     if spec.conservative {
@@ -603,7 +610,7 @@ fn fit_one(
             "as plain heights (rectangle)"
         }
     );
-    let note = if design {
+    let mut note = if design {
         "design formula: the largest unconservative error found is within the threshold".to_string()
     } else {
         format!(
@@ -612,11 +619,17 @@ fn fit_one(
             100.0 * spec.threshold
         )
     };
+    if failed > 0 || excluded > 0 {
+        note.push_str(&format!(
+            "; {excluded} grid cases and {failed} check cases did not solve and are not covered by the bound"
+        ));
+    }
     let file = if single {
         format!("{}.{}.fit.json", f.name, spec.name)
     } else {
         format!("{}.{}.{}.fit.json", f.name, spec.name, combo.name)
     };
+    let target_met = details.get("target_met").cloned().unwrap_or(Value::Null);
     let json = json!({
         "caution": crate::CAUTION,
         "caveats": CAVEATS,
@@ -654,6 +667,7 @@ fn fit_one(
         "error_bound_method": "coefficients as printed; fit grid, a validation grid of sub-cell centres offset from it, and a pattern search with the engine around the worst points; each point's finite-element error estimate included (the exact value lies in [fe*(1-e), fe])",
         "points_checked": {"grid": b.points[0], "validation": b.points[1], "search": b.points[2]},
         "cases_excluded": excluded,
+        "check_cases_not_solved": failed,
         "target": num(spec.target),
         "threshold": num(spec.threshold),
         "conservative": conservative,
@@ -674,6 +688,7 @@ fn fit_one(
         "max_unconservative_error": num(b.max_unconservative_error.value),
         "rms_error": num(b.rms_error),
         "design_formula": design,
+        "target_met": target_met,
         "conservative": conservative.get("factor").cloned().unwrap_or(Value::Null),
         "threshold": num(spec.threshold),
     });
@@ -761,7 +776,7 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 )?;
                 if !opts.quiet {
                     eprintln!(
-                        "{}: max relative error {:.3} %, max unconservative {:.3} %, rms {:.3} %{}",
+                        "{}: max relative error {:.3} %, max unconservative {:.3} %, rms {:.3} %{}{}",
                         d.file,
                         100.0 * d.summary["max_rel_error"].as_f64().unwrap_or(0.0),
                         100.0
@@ -773,6 +788,11 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                             ""
                         } else {
                             " (NOT a design formula)"
+                        },
+                        if d.summary["target_met"] == json!(false) {
+                            " (fit target not met)"
+                        } else {
+                            ""
                         }
                     );
                 }
