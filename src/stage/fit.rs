@@ -821,6 +821,35 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 "# base case: {}",
                 crate::report::case_summary(&f.case.member)
             )?;
+            let z = if domain.band.is_some() {
+                "zeta/kappa"
+            } else {
+                "zeta"
+            };
+            let formula = match spec.form {
+                Form::Surface => format!(
+                    "mu_cr/mu0 = sum of c<i><j>*u^i*v^j with mu0 = pi*sqrt(1 + kappa^2), u = (ln(kappa) - u_shift)/u_scale, v = ({z} - v_shift)/v_scale"
+                ),
+                Form::CCurves => "mu_cr = C1*pi*(sqrt(1 + kappa^2 + (C2*zeta)^2) - C2*zeta) with C1 = sum of a_i*u^i, C2 = sum of b_i*u^i, u = (ln(kappa) - u_shift)/u_scale".to_string(),
+                Form::Expression => format!(
+                    "{} = {}",
+                    if spec.quantity == Quantity::MuCr {
+                        "mu_cr"
+                    } else {
+                        "mu_cr/(pi*sqrt(1 + kappa^2))"
+                    },
+                    spec.expression.as_deref().unwrap_or("")
+                ),
+            };
+            writeln!(
+                b,
+                "# formula: {formula}{}",
+                if spec.conservative {
+                    "; times `factor` where listed (the safe-side factor)"
+                } else {
+                    ""
+                }
+            )?;
             if flags[k].is_empty() {
                 writeln!(
                     b,
