@@ -16,6 +16,7 @@ pub mod case;
 pub mod chart;
 pub mod eigen;
 pub mod fe;
+pub mod fit;
 pub mod handbook;
 pub mod linalg;
 pub mod model;

@@ -206,6 +206,46 @@ enum Command {
         /// Folder to write into (created if needed).
         dir: PathBuf,
     },
+    /// Fit formulas (surfaces, C1/C2 curves, closed forms) to the families that declare `fit`, with measured error bounds.
+    Fit {
+        /// Sweep spec (TOML) whose families declare `fit`.
+        spec: PathBuf,
+        /// Output folder (created if needed).
+        #[arg(long)]
+        out: PathBuf,
+        /// Worker threads (default: all cores).
+        #[arg(long)]
+        jobs: Option<usize>,
+        /// Relative error target of every solve (default 1e-4).
+        #[arg(long)]
+        tolerance: Option<f64>,
+        /// Print nothing but errors.
+        #[arg(long)]
+        quiet: bool,
+        /// Result cache folder (default as for `sweep`).
+        #[arg(long, value_name = "DIR")]
+        cache: Option<PathBuf>,
+        /// Solve every case afresh, neither reading nor writing the cache.
+        #[arg(long, conflicts_with = "cache")]
+        no_cache: bool,
+    },
+    /// Evaluate a fitted formula (a .fit.json file) at one kappa and zeta.
+    Eval {
+        /// The fit file.
+        fit: PathBuf,
+        /// Torsion parameter kappa.
+        #[arg(long, allow_negative_numbers = true)]
+        kappa: f64,
+        /// Load height parameter zeta.
+        #[arg(long, allow_negative_numbers = true)]
+        zeta: f64,
+        /// Print one JSON object.
+        #[arg(long)]
+        json: bool,
+        /// Evaluate outside the fit's validity domain (output marked as extrapolated).
+        #[arg(long)]
+        extrapolate: bool,
+    },
     /// Combine the shards of a sharded sweep into the files an unsharded run writes.
     Merge {
         /// The sweep spec the shards were run from.
@@ -250,6 +290,36 @@ fn run(cli: Cli) -> Result<ExitCode> {
             &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
         ),
         Command::Merge { spec, out } => merge_cmd(&spec, &out),
+        Command::Fit {
+            spec,
+            out,
+            jobs,
+            tolerance,
+            quiet,
+            cache,
+            no_cache,
+        } => {
+            let opts = stage_options(jobs, tolerance, quiet, false, cache, no_cache);
+            let ls = stage::load_spec(&spec)?;
+            stage::fit::run(&ls, &out, &opts)?;
+            Ok(ExitCode::SUCCESS)
+        }
+        Command::Eval {
+            fit,
+            kappa,
+            zeta,
+            json,
+            extrapolate,
+        } => {
+            let e = stage::fit::eval(&fit, kappa, zeta, extrapolate)?;
+            let text = if json {
+                format!("{}\n", serde_json::to_string_pretty(&e.to_json())?)
+            } else {
+                e.to_text()
+            };
+            std::io::stdout().write_all(text.as_bytes())?;
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Build {
             spec,
             out,

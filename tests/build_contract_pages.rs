@@ -35,7 +35,7 @@ date = "2026-02-01"
 
 [[family]]
 name = "tip"
-kappa = [0.5, 1.5]
+kappa = [0.5, 1.0, 1.5]
 zeta = ["-kappa", "kappa"]
 direction = ["down", "up"]
 fit = ["surface"]
@@ -95,7 +95,7 @@ fn contract_files_reach_the_typeset_pages() {
     let page = std::fs::read_to_string(out.join("pages/family-tip.typ")).unwrap();
     // The design formula typeset from its typst source; the other only as "not a design formula".
     assert!(
-        page.contains("eval(\"mu_\\\"cr\\\" = \\\"3.41\\\""),
+        page.contains("eval(\"mu_\\\"cr\\\" &= \\\"3.41\\\""),
         "{page}"
     );
     assert!(!page.contains("\\\"2.10\\\" sqrt"), "{page}");

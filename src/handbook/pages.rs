@@ -530,7 +530,7 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
     if !fam_charts.is_empty() {
         let _ = writeln!(s, "== Charts");
         for c in fam_charts {
-            let _ = writeln!(s, "{}", figure(c, "100%"));
+            let _ = writeln!(s, "{}", figure(c, "80%"));
         }
     }
     // Tables.
@@ -578,7 +578,7 @@ fn family(inp: &Inputs<'_>, p: &FamilyPage, f: &Family) -> String {
                 let _ = writeln!(s, "{}", rules_table(inp, &entries));
             }
             for c in maps {
-                let _ = writeln!(s, "{}", figure(c, "100%"));
+                let _ = writeln!(s, "{}", figure(c, "85%"));
             }
         }
     }
@@ -671,14 +671,84 @@ fn where_of(v: &Value, key: &str) -> Option<String> {
     let k = number(w.get("kappa"));
     let z = number(w.get("zeta"));
     match (k, z) {
-        (Some(k), Some(z)) => Some(format!(
-            "at κ = {}, ζ = {}",
-            crate::sweep::fmt_num(k),
-            crate::sweep::fmt_num(z)
-        )),
-        (Some(k), None) => Some(format!("at κ = {}", crate::sweep::fmt_num(k))),
+        (Some(k), Some(z)) => Some(format!("at κ = {}, ζ = {}", loc(k), loc(z))),
+        (Some(k), None) => Some(format!("at κ = {}", loc(k))),
         _ => None,
     }
+}
+
+/// A position (κ or ζ) where something peaks, to three significant
+/// digits: it tells a reader where to look, not a value to design with.
+fn loc(x: f64) -> String {
+    if x == 0.0 || !x.is_finite() {
+        return "0".into();
+    }
+    let d = (2 - x.abs().log10().floor() as i32).max(0) as usize;
+    let t = format!("{:.*}", d, x);
+    let t = if t.contains('.') {
+        t.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        t
+    };
+    if t == "-0" { "0".into() } else { t }
+}
+
+/// A fitted formula's typst source broken into display lines: the
+/// definitions after ", quad" each on a line of their own, and a long sum
+/// on the right-hand side of the main equation `per_line` terms a line,
+/// aligned after its `=` (splits only at top-level `+`/`-`, outside
+/// parentheses, brackets and quotes).
+pub fn wrap_formula(t: &str, per_line: usize) -> String {
+    let mut parts = t.split(", quad ");
+    let main = parts.next().unwrap_or("");
+    let defs: Vec<&str> = parts.collect();
+    let (lhs, rhs) = match main.split_once(" = ") {
+        Some((l, r)) => (l, r),
+        None => return t.to_string(),
+    };
+    // Top-level terms of the right-hand side.
+    let mut terms: Vec<String> = Vec::new();
+    let (mut depth, mut quoted, mut cur) = (0i32, false, String::new());
+    let chars: Vec<char> = rhs.chars().collect();
+    let mut i = 0;
+    while i < chars.len() {
+        let c = chars[i];
+        match c {
+            '"' => quoted = !quoted,
+            '(' | '[' | '{' if !quoted => depth += 1,
+            ')' | ']' | '}' if !quoted => depth -= 1,
+            _ => {}
+        }
+        if !quoted
+            && depth == 0
+            && (c == '+' || c == '-')
+            && i > 0
+            && chars[i - 1] == ' '
+            && chars.get(i + 1) == Some(&' ')
+            && !cur.trim().is_empty()
+        {
+            terms.push(cur.trim_end().to_string());
+            cur = String::new();
+        }
+        cur.push(c);
+        i += 1;
+    }
+    if !cur.trim().is_empty() {
+        terms.push(cur.trim_end().to_string());
+    }
+    let mut lines: Vec<String> = Vec::new();
+    for (k, chunk) in terms.chunks(per_line.max(1)).enumerate() {
+        let body = chunk.join(" ");
+        lines.push(if k == 0 {
+            format!("{lhs} &= {body}")
+        } else {
+            format!("&quad {body}")
+        });
+    }
+    for d in defs {
+        lines.push(format!("&{d}"));
+    }
+    lines.join(" \\ ")
 }
 
 /// An error as a percentage rounded up (the safe side for an error bound).
@@ -721,7 +791,7 @@ fn fit_box(path: &str, v: &Value) -> String {
                 let _ = writeln!(
                     s,
                     "  #text(10.5pt, math.equation(block: true, eval({}, mode: \"math\")))",
-                    lit(t)
+                    lit(&wrap_formula(t, 4))
                 );
             }
             None => {
@@ -934,11 +1004,7 @@ fn rules_table(inp: &Inputs<'_>, entries: &[&Value]) -> String {
             number(at.and_then(|a| a.get("kappa"))),
             number(at.and_then(|a| a.get("zeta"))),
         ) {
-            (Some(k), Some(z)) => format!(
-                "\nat κ = {}, ζ = {}",
-                crate::sweep::fmt_num(k),
-                crate::sweep::fmt_num(z)
-            ),
+            (Some(k), Some(z)) => format!("\nat κ = {}, ζ = {}", loc(k), loc(z)),
             _ => String::new(),
         };
         let ratio = number(e.get("max_ratio"))
@@ -990,6 +1056,21 @@ fn rules_table(inp: &Inputs<'_>, entries: &[&Value]) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn long_formulas_wrap_at_top_level_terms() {
+        let t = "mu_\"cr\" / mu_0 = 0.33 - 0.045 v + 0.0030 v^2 - 0.11 u - 0.037 u (v - 1) + 0.0062 u v^2, quad mu_0 = pi sqrt(1 + kappa^2), quad u = (ln kappa + 0.29) / 1.32";
+        let w = wrap_formula(t, 4);
+        assert_eq!(
+            w,
+            "mu_\"cr\" / mu_0 &= 0.33 - 0.045 v + 0.0030 v^2 - 0.11 u \\ &quad - 0.037 u (v - 1) + 0.0062 u v^2 \\ &mu_0 = pi sqrt(1 + kappa^2) \\ &u = (ln kappa + 0.29) / 1.32"
+        );
+        // Short formulas stay one line.
+        assert_eq!(wrap_formula("mu = 1.2 pi", 4), "mu &= 1.2 pi");
+        assert_eq!(loc(2.339221360094069), "2.34");
+        assert_eq!(loc(-0.0412345), "-0.0412");
+        assert_eq!(loc(12.5), "12.5");
+    }
     use crate::handbook::parse_handbook;
     use crate::sweep::spec::parse_spec;
     use serde_json::json;
@@ -1176,7 +1257,7 @@ date = "2026-01-05"
         // The design formula typeset from its typst source, with validity and errors.
         assert!(
             tip.contains(
-                "eval(\"mu_\\\"cr\\\" = \\\"1.23\\\" pi sqrt(1 + kappa^2)\", mode: \"math\")"
+                "eval(\"mu_\\\"cr\\\" &= \\\"1.23\\\" pi sqrt(1 + kappa^2)\", mode: \"math\")"
             ),
             "{tip}"
         );

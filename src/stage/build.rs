@@ -114,6 +114,7 @@ type Step = fn(&mut Ctx<'_>) -> Result<()>;
 /// build (see [`OWNED_DIRS`]); pages read only those files.
 const STEPS: &[(&str, Step)] = &[
     ("sweep", step_sweep),
+    ("fit", step_fit),
     ("check", step_check),
     ("charts", step_charts),
     ("resistance", step_resistance),
@@ -256,6 +257,10 @@ fn step_sweep(cx: &mut Ctx<'_>) -> Result<()> {
     Ok(())
 }
 
+fn step_fit(cx: &mut Ctx<'_>) -> Result<()> {
+    super::fit::run(cx.ls, &cx.out.join("fit"), cx.opts)
+}
+
 fn step_check(cx: &mut Ctx<'_>) -> Result<()> {
     super::check::run(cx.ls, &cx.out.join("check"), cx.opts)
 }
@@ -263,10 +268,17 @@ fn step_check(cx: &mut Ctx<'_>) -> Result<()> {
 fn step_charts(cx: &mut Ctx<'_>) -> Result<()> {
     let src = super::chart::Sources {
         sweep: cx.out.join("sweep"),
-        fit: None,
+        fit: Some(cx.out.join("fit")),
         check: Some(cx.out.join("check")),
     };
-    super::chart::run(cx.ls, &src, &cx.out.join("charts"), cx.opts)
+    // The pages print the caution and caveats on every page.
+    super::chart::run_with(
+        cx.ls,
+        &src,
+        &cx.out.join("charts"),
+        cx.opts,
+        &super::chart::Settings { caution: false },
+    )
 }
 
 /// Resistance tables when the handbook spec has a top-level `[design]`.

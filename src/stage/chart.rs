@@ -859,7 +859,15 @@ fn schematics(
     files: &mut Vec<(String, String)>,
     index: &mut Vec<Entry>,
 ) -> Result<()> {
+    // With a direction axis holding both directions the case is drawn once
+    // per other combination, with loads shown both ways.
+    let both = f.axes.iter().any(|a| {
+        matches!(a, Axis::Direction(d) if d.contains(&sweep::Direction::Down) && d.contains(&sweep::Direction::Up))
+    });
     for c in sweep::combinations(f) {
+        if both && c.labels.iter().any(|(k, v)| k == "direction" && v == "up") {
+            continue;
+        }
         let (p, ztext) = representative(f, &c);
         let kappa = p.member.kappa;
         let zvals = zeta_values(f);
@@ -873,7 +881,18 @@ fn schematics(
                 (zeta_short(*z), v)
             })
             .collect();
-        let mut sub = combo_text(&c);
+        let mut shown = c.clone();
+        if both {
+            shown.labels.retain(|(k, _)| k != "direction");
+        }
+        let mut sub = combo_text(&shown);
+        if both {
+            sub = if sub.is_empty() {
+                "loads down (gravity) and up (uplift)".to_string()
+            } else {
+                format!("{sub}; loads down (gravity) and up (uplift)")
+            };
+        }
         let drawn = format!(
             "drawn at κ = {}{}",
             crate::chart::fmt_tick(kappa, 3),
@@ -903,7 +922,7 @@ fn schematics(
             subtitle: sub.clone(),
             member: p.member,
             load_heights,
-            both_directions: false,
+            both_directions: both,
             notes,
             caution: settings.caution,
         };

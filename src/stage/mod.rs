@@ -9,6 +9,8 @@ pub mod resistance;
 
 pub mod chart;
 
+pub mod fit;
+
 use crate::solve::Settings;
 use crate::sweep::cache::{self, Cache, point_key};
 use crate::sweep::run::{self, Shard, Summary};
