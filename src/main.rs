@@ -24,6 +24,46 @@ struct Cli {
     command: Command,
 }
 
+/// Options every stage command shares, defined once.
+#[derive(clap::Args)]
+struct StageArgs {
+    /// Worker threads (default: all cores).
+    #[arg(long)]
+    jobs: Option<usize>,
+    /// Relative error target of every solve (default 1e-4).
+    #[arg(long)]
+    tolerance: Option<f64>,
+    /// Print nothing but errors.
+    #[arg(long)]
+    quiet: bool,
+    /// Run grids larger than the size threshold without asking.
+    #[arg(long)]
+    yes: bool,
+    /// Result cache folder (default: $LTB_ATLAS_CACHE, $XDG_CACHE_HOME/ltb-atlas or ~/.cache/ltb-atlas).
+    #[arg(long, value_name = "DIR")]
+    cache: Option<PathBuf>,
+    /// Solve every case afresh, neither reading nor writing the cache.
+    #[arg(long, conflicts_with = "cache")]
+    no_cache: bool,
+}
+
+impl StageArgs {
+    /// The library's stage options from these flags.
+    fn options(&self) -> stage::Options {
+        stage::Options {
+            jobs: self.jobs,
+            tolerance: self.tolerance.unwrap_or(1e-4),
+            quiet: self.quiet,
+            yes: self.yes,
+            cache: match (self.no_cache, &self.cache) {
+                (true, _) => stage::CacheChoice::Off,
+                (false, Some(d)) => stage::CacheChoice::Dir(d.clone()),
+                (false, None) => stage::CacheChoice::Default,
+            },
+        }
+    }
+}
+
 #[derive(Subcommand)]
 enum Command {
     /// Solve one case: the lowest elastic critical load factor and Mcr.
@@ -50,27 +90,12 @@ enum Command {
         /// Output folder (created if needed).
         #[arg(long)]
         out: PathBuf,
-        /// Worker threads (default: all cores).
-        #[arg(long)]
-        jobs: Option<usize>,
-        /// Relative error target of every solve (default 1e-4).
-        #[arg(long)]
-        tolerance: Option<f64>,
-        /// Print nothing but errors.
-        #[arg(long)]
-        quiet: bool,
-        /// Run grids larger than the size threshold without asking.
-        #[arg(long)]
-        yes: bool,
-        /// Result cache folder (default: $LTB_ATLAS_CACHE, $XDG_CACHE_HOME/ltb-atlas or ~/.cache/ltb-atlas).
-        #[arg(long, value_name = "DIR")]
-        cache: Option<PathBuf>,
-        /// Solve every case afresh, neither reading nor writing the cache.
-        #[arg(long, conflicts_with = "cache")]
-        no_cache: bool,
         /// Solve only slice K of N of every family (K in 1..=N); combine with `merge`.
         #[arg(long, value_name = "K/N")]
         shard: Option<String>,
+        /// Threads, tolerance, cache and output options shared by every stage.
+        #[command(flatten)]
+        stage: StageArgs,
     },
     /// Check simplified code rules against the engine over each family's grid (families with `rules`).
     Check {
@@ -79,27 +104,12 @@ enum Command {
         /// Output folder (created if needed).
         #[arg(long)]
         out: PathBuf,
-        /// Worker threads (default: all cores).
-        #[arg(long)]
-        jobs: Option<usize>,
-        /// Relative error target of every solve (default 1e-4).
-        #[arg(long)]
-        tolerance: Option<f64>,
-        /// Print nothing but errors.
-        #[arg(long)]
-        quiet: bool,
-        /// Result cache folder (default as for `sweep`).
-        #[arg(long, value_name = "DIR")]
-        cache: Option<PathBuf>,
-        /// Solve every case afresh, neither reading nor writing the cache.
-        #[arg(long, conflicts_with = "cache")]
-        no_cache: bool,
         /// A rule is unconservative where Mcr(rule)/Mcr(FE) > 1 + this (default 0.001).
         #[arg(long, value_name = "X")]
         rule_tolerance: Option<f64>,
-        /// Run grids larger than the size threshold without asking.
-        #[arg(long)]
-        yes: bool,
+        /// Threads, tolerance, cache and output options shared by every stage.
+        #[command(flatten)]
+        stage: StageArgs,
     },
     /// Design buckling resistance tables (EN 1993-1-1:2005 or AISC 360-16) against length, from the engine's Mcr.
     Resistance {
@@ -108,21 +118,9 @@ enum Command {
         /// Output folder (created if needed).
         #[arg(long)]
         out: PathBuf,
-        /// Worker threads (default: all cores).
-        #[arg(long)]
-        jobs: Option<usize>,
-        /// Relative error target of every solve (default 1e-4).
-        #[arg(long)]
-        tolerance: Option<f64>,
-        /// Print nothing but errors.
-        #[arg(long)]
-        quiet: bool,
-        /// Result cache folder (default as for sweep).
-        #[arg(long, value_name = "DIR")]
-        cache: Option<PathBuf>,
-        /// Solve every case afresh, neither reading nor writing the cache.
-        #[arg(long, conflicts_with = "cache")]
-        no_cache: bool,
+        /// Threads, tolerance, cache and output options shared by every stage.
+        #[command(flatten)]
+        stage: StageArgs,
     },
     /// Draw the charts of a spec (SVG) from sweep, fit and check outputs.
     Chart {
@@ -140,21 +138,9 @@ enum Command {
         /// Output folder (created if needed).
         #[arg(long)]
         out: PathBuf,
-        /// Worker threads (default: all cores).
-        #[arg(long)]
-        jobs: Option<usize>,
-        /// Relative error target of the mode-shape solves (default 1e-4).
-        #[arg(long)]
-        tolerance: Option<f64>,
-        /// Print nothing but errors.
-        #[arg(long)]
-        quiet: bool,
-        /// Result cache folder (accepted for symmetry with the other stages).
-        #[arg(long, value_name = "DIR")]
-        cache: Option<PathBuf>,
-        /// Neither read nor write the cache.
-        #[arg(long, conflicts_with = "cache")]
-        no_cache: bool,
+        /// Threads, tolerance, cache and output options shared by every stage.
+        #[command(flatten)]
+        stage: StageArgs,
     },
     /// Build a handbook: sweep tables, print tables, typst pages and the PDF, with a manifest.
     Build {
@@ -169,24 +155,9 @@ enum Command {
         /// Edition date YYYY-MM-DD (default: the spec's date, else $SOURCE_DATE_EPOCH).
         #[arg(long, value_name = "YYYY-MM-DD")]
         date: Option<String>,
-        /// Worker threads (default: all cores).
-        #[arg(long)]
-        jobs: Option<usize>,
-        /// Relative error target of every solve (default 1e-4).
-        #[arg(long)]
-        tolerance: Option<f64>,
-        /// Print nothing but errors.
-        #[arg(long)]
-        quiet: bool,
-        /// Run grids larger than the size threshold without asking.
-        #[arg(long)]
-        yes: bool,
-        /// Result cache folder.
-        #[arg(long, value_name = "DIR")]
-        cache: Option<PathBuf>,
-        /// Solve every case afresh, neither reading nor writing the cache.
-        #[arg(long, conflicts_with = "cache")]
-        no_cache: bool,
+        /// Threads, tolerance, cache and output options shared by every stage.
+        #[command(flatten)]
+        stage: StageArgs,
     },
     /// Compare two handbook builds: moved table cells, changed fits, flipped rule verdicts.
     Diff {
@@ -213,21 +184,9 @@ enum Command {
         /// Output folder (created if needed).
         #[arg(long)]
         out: PathBuf,
-        /// Worker threads (default: all cores).
-        #[arg(long)]
-        jobs: Option<usize>,
-        /// Relative error target of every solve (default 1e-4).
-        #[arg(long)]
-        tolerance: Option<f64>,
-        /// Print nothing but errors.
-        #[arg(long)]
-        quiet: bool,
-        /// Result cache folder (default as for `sweep`).
-        #[arg(long, value_name = "DIR")]
-        cache: Option<PathBuf>,
-        /// Solve every case afresh, neither reading nor writing the cache.
-        #[arg(long, conflicts_with = "cache")]
-        no_cache: bool,
+        /// Threads, tolerance, cache and output options shared by every stage.
+        #[command(flatten)]
+        stage: StageArgs,
     },
     /// Evaluate a fitted formula (a .fit.json file) at one kappa and zeta.
     Eval {
@@ -279,27 +238,12 @@ fn run(cli: Cli) -> Result<ExitCode> {
         Command::Sweep {
             spec,
             out,
-            jobs,
-            tolerance,
-            quiet,
-            yes,
-            cache,
-            no_cache,
             shard,
-        } => sweep_cmd(
-            &spec, &out, jobs, tolerance, quiet, yes, cache, no_cache, shard,
-        ),
+            stage,
+        } => sweep_cmd(&spec, &out, &stage.options(), shard),
         Command::Merge { spec, out } => merge_cmd(&spec, &out),
-        Command::Fit {
-            spec,
-            out,
-            jobs,
-            tolerance,
-            quiet,
-            cache,
-            no_cache,
-        } => {
-            let opts = stage_options(jobs, tolerance, quiet, false, cache, no_cache);
+        Command::Fit { spec, out, stage } => {
+            let opts = stage.options();
             let ls = stage::load_spec(&spec)?;
             stage::fit::run(&ls, &out, &opts)?;
             Ok(ExitCode::SUCCESS)
@@ -325,14 +269,9 @@ fn run(cli: Cli) -> Result<ExitCode> {
             out,
             typst,
             date,
-            jobs,
-            tolerance,
-            quiet,
-            yes,
-            cache,
-            no_cache,
+            stage,
         } => {
-            let opts = stage_options(jobs, tolerance, quiet, yes, cache, no_cache);
+            let opts = stage.options();
             build_cmd(
                 &spec,
                 &out,
@@ -361,28 +300,16 @@ fn run(cli: Cli) -> Result<ExitCode> {
             fit,
             check,
             out,
-            jobs,
-            tolerance,
-            quiet,
-            cache,
-            no_cache,
+            stage,
         } => {
-            let opts = stage_options(jobs, tolerance, quiet, false, cache, no_cache);
+            let opts = stage.options();
             let ls = stage::load_spec(&spec)?;
             let src = stage::chart::Sources { sweep, fit, check };
             stage::chart::run(&ls, &src, &out, &opts)?;
             Ok(ExitCode::SUCCESS)
         }
-        Command::Resistance {
-            spec,
-            out,
-            jobs,
-            tolerance,
-            quiet,
-            cache,
-            no_cache,
-        } => {
-            let opts = stage_options(jobs, tolerance, quiet, false, cache, no_cache);
+        Command::Resistance { spec, out, stage } => {
+            let opts = stage.options();
             let ls = stage::resistance::load(&spec)?;
             stage::resistance::run(&ls, &out, &opts)?;
             Ok(ExitCode::SUCCESS)
@@ -390,15 +317,10 @@ fn run(cli: Cli) -> Result<ExitCode> {
         Command::Check {
             spec,
             out,
-            jobs,
-            tolerance,
-            quiet,
-            cache,
-            no_cache,
             rule_tolerance,
-            yes,
+            stage,
         } => {
-            let opts = stage_options(jobs, tolerance, quiet, yes, cache, no_cache);
+            let opts = stage.options();
             check_cmd(&spec, &out, &opts, rule_tolerance)
         }
     }
@@ -489,16 +411,10 @@ fn solve_cmd(
     })
 }
 
-#[allow(clippy::too_many_arguments)]
 fn sweep_cmd(
     spec_path: &Path,
     out: &Path,
-    jobs: Option<usize>,
-    tolerance: Option<f64>,
-    quiet: bool,
-    yes: bool,
-    cache_dir: Option<PathBuf>,
-    no_cache: bool,
+    opts: &stage::Options,
     shard: Option<String>,
 ) -> Result<ExitCode> {
     let shard = match shard {
@@ -520,10 +436,9 @@ fn sweep_cmd(
             }
         }
     };
-    let opts = stage_options(jobs, tolerance, quiet, yes, cache_dir, no_cache);
     let ls = stage::load_spec(spec_path)?;
-    let summary = stage::sweep(&ls, out, &opts, shard)?;
-    if !quiet {
+    let summary = stage::sweep(&ls, out, opts, shard)?;
+    if !opts.quiet {
         eprintln!(
             "{} cases in {} families, {} not ok; tables and manifest in {}",
             summary.cases,
@@ -537,28 +452,6 @@ fn sweep_cmd(
     } else {
         ExitCode::SUCCESS
     })
-}
-
-/// The shared stage options from the command-line flags.
-fn stage_options(
-    jobs: Option<usize>,
-    tolerance: Option<f64>,
-    quiet: bool,
-    yes: bool,
-    cache_dir: Option<PathBuf>,
-    no_cache: bool,
-) -> stage::Options {
-    stage::Options {
-        jobs,
-        tolerance: tolerance.unwrap_or(1e-4),
-        quiet,
-        yes,
-        cache: match (no_cache, cache_dir) {
-            (true, _) => stage::CacheChoice::Off,
-            (false, Some(d)) => stage::CacheChoice::Dir(d),
-            (false, None) => stage::CacheChoice::Default,
-        },
-    }
 }
 
 fn check_cmd(

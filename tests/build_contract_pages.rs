@@ -6,24 +6,11 @@
 //! Driver behaviour, checked against the generated sources (common
 //! practice, no source).
 
+mod common;
+use common::typst;
 use ltb_atlas::stage::build::{BuildOptions, TypstMissing, run, typeset};
 use ltb_atlas::stage::{CacheChoice, Options};
-use std::path::{Path, PathBuf};
-
-fn typst() -> PathBuf {
-    if let Some(p) = std::env::var_os("TYPST_BIN").filter(|p| !p.is_empty()) {
-        return PathBuf::from(p);
-    }
-    let tools = std::env::var_os("LTB_TOOLS_DIR")
-        .map(PathBuf::from)
-        .or_else(|| std::env::var_os("HOME").map(|h| Path::new(&h).join(".cache/ltb-atlas-tools")));
-    if let Some(t) = tools.map(|t| t.join("bin/typst")).filter(|p| p.is_file()) {
-        return t;
-    }
-    panic!(
-        "typst 0.15.1 is needed for the end-to-end PDF tests: run scripts/install-typst (the README's test command does) or set TYPST_BIN"
-    );
-}
+use std::path::Path;
 
 const SPEC: &str = r#"
 [handbook]

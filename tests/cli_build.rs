@@ -11,26 +11,13 @@
 //! `scripts/install-typst` fills; without it they FAIL (the README's test
 //! command installs it first).
 
+mod common;
+use common::typst;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
 fn bin() -> Command {
     Command::new(env!("CARGO_BIN_EXE_ltb-atlas"))
-}
-
-fn typst() -> PathBuf {
-    if let Some(p) = std::env::var_os("TYPST_BIN").filter(|p| !p.is_empty()) {
-        return PathBuf::from(p);
-    }
-    let tools = std::env::var_os("LTB_TOOLS_DIR")
-        .map(PathBuf::from)
-        .or_else(|| std::env::var_os("HOME").map(|h| Path::new(&h).join(".cache/ltb-atlas-tools")));
-    if let Some(t) = tools.map(|t| t.join("bin/typst")).filter(|p| p.is_file()) {
-        return t;
-    }
-    panic!(
-        "typst 0.15.1 is needed for the end-to-end PDF tests: run scripts/install-typst (the README's test command does) or set TYPST_BIN"
-    );
 }
 
 const SPEC: &str = r#"

@@ -41,6 +41,18 @@ pub(crate) struct Tab<'a> {
     pub t: &'a DeTable<'a>,
 }
 
+impl<'a> Tab<'a> {
+    /// The top-level table of a parsed document.
+    pub fn top(src: &'a Source<'a>, root: &'a DeTable<'a>) -> Tab<'a> {
+        Tab {
+            src,
+            path: "",
+            span: &(0..0),
+            t: root,
+        }
+    }
+}
+
 /// An owned version of a table's location, to build sub-tables from.
 pub(crate) struct TabLoc<'a> {
     pub path: String,

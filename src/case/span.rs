@@ -12,7 +12,18 @@ pub(crate) struct Source<'s> {
     pub origin: &'s str,
 }
 
-impl Source<'_> {
+impl<'s> Source<'s> {
+    /// Parse the whole document; a syntax error is located like any other.
+    pub fn parse(&self) -> Result<serde_spanned::Spanned<toml::de::DeTable<'s>>, CaseError> {
+        toml::de::DeTable::parse(self.text).map_err(|e| {
+            self.error(
+                &e.span().unwrap_or(0..0),
+                "",
+                format!("TOML syntax error: {}", e.message().trim()),
+            )
+        })
+    }
+
     /// 1-based line and column (in characters) of a byte offset. Offsets past
     /// the end are clamped; an offset inside a multi-byte character counts as
     /// that character.

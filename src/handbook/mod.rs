@@ -39,7 +39,7 @@ use crate::case::span::Source;
 use crate::section::{Properties, Shape, properties};
 use crate::sweep::spec::Spec;
 use std::f64::consts::PI;
-use toml::de::{DeTable, DeValue};
+use toml::de::DeValue;
 pub use units::Units;
 
 /// Keys of `[handbook]`.
@@ -319,21 +319,8 @@ pub struct Handbook {
 /// Errors name file, line, column and key.
 pub fn parse_handbook(text: &str, origin: &str, spec: &Spec) -> Result<Handbook, CaseError> {
     let src = Source { text, origin };
-    let root = DeTable::parse(text).map_err(|e| {
-        let span = e.span().unwrap_or(0..0);
-        src.error(
-            &span,
-            "",
-            format!("TOML syntax error: {}", e.message().trim()),
-        )
-    })?;
-    let top_span = 0..0;
-    let top = Tab {
-        src: &src,
-        path: "",
-        span: &top_span,
-        t: root.get_ref(),
-    };
+    let root = src.parse()?;
+    let top = Tab::top(&src, root.get_ref());
     let Some(loc) = top.table("handbook")? else {
         return Err(src.error(
             &(0..0),

@@ -40,7 +40,7 @@ use crate::case::CaseError;
 use crate::case::schema::{Tab, number_of, type_name};
 use crate::case::span::Source;
 use exmex::prelude::*;
-use toml::de::{DeTable, DeValue};
+use toml::de::DeValue;
 
 /// Which members an office rule covers.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -337,20 +337,8 @@ pub fn parse_office_rules(
     read: &dyn Fn(&str) -> Result<String, String>,
 ) -> Result<Vec<OfficeRule>, CaseError> {
     let src = Source { text, origin };
-    let root = DeTable::parse(text).map_err(|e| {
-        src.error(
-            &e.span().unwrap_or(0..0),
-            "",
-            format!("TOML syntax error: {}", e.message().trim()),
-        )
-    })?;
-    let top_span = 0..0;
-    let top = Tab {
-        src: &src,
-        path: "",
-        span: &top_span,
-        t: root.get_ref(),
-    };
+    let root = src.parse()?;
+    let top = Tab::top(&src, root.get_ref());
     let mut out: Vec<OfficeRule> = Vec::new();
     for loc in top.tables("rule")? {
         let t = loc.tab(&src);
@@ -567,20 +555,8 @@ pub fn parse_family_rules(
     office: &[OfficeRule],
 ) -> Result<Vec<Vec<String>>, CaseError> {
     let src = Source { text, origin };
-    let root = DeTable::parse(text).map_err(|e| {
-        src.error(
-            &e.span().unwrap_or(0..0),
-            "",
-            format!("TOML syntax error: {}", e.message().trim()),
-        )
-    })?;
-    let top_span = 0..0;
-    let top = Tab {
-        src: &src,
-        path: "",
-        span: &top_span,
-        t: root.get_ref(),
-    };
+    let root = src.parse()?;
+    let top = Tab::top(&src, root.get_ref());
     let mut known: Vec<&str> = super::BUILT_IN.to_vec();
     known.extend(office.iter().map(|o| o.name.as_str()));
     let mut out = Vec::new();

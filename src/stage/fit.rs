@@ -36,7 +36,7 @@ use anyhow::{Context, Result, bail};
 use serde_json::{Value, json};
 use std::io::Write;
 use std::path::Path;
-use toml::de::{DeTable, DeValue};
+use toml::de::DeValue;
 
 /// Fit forms.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -129,20 +129,8 @@ pub fn parse_fits(ls: &LoadedSpec) -> Result<Vec<Vec<FitSpec>>, CaseError> {
         text: &ls.text,
         origin: &origin,
     };
-    let root = DeTable::parse(&ls.text).map_err(|e| {
-        src.error(
-            &e.span().unwrap_or(0..0),
-            "",
-            format!("TOML syntax error: {}", e.message().trim()),
-        )
-    })?;
-    let top_span = 0..0;
-    let top = Tab {
-        src: &src,
-        path: "",
-        span: &top_span,
-        t: root.get_ref(),
-    };
+    let root = src.parse()?;
+    let top = Tab::top(&src, root.get_ref());
     let mut out = Vec::new();
     for loc in top.tables("family")? {
         let t = loc.tab(&src);

@@ -770,24 +770,29 @@ pub fn combination_of(f: &Family, i: usize) -> String {
     }
 }
 
-/// Print tables of a physical family with a `length` axis: Mcr (kN·m) with
-/// the length down and the load height across (one column without a height
-/// axis), one table per combination of the other axes, rounded down like the
-/// dimensionless tables.
-fn physical_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, Vec<u8>)> {
-    let find = |c: &str| {
-        f.axes
-            .iter()
-            .position(|a| matches!(a, Axis::Case { column, .. } if *column == c))
-    };
-    let Some(la) = find("length") else {
-        return Vec::new();
-    };
-    let ha = find("height");
+/// Wide tables of a family: the values of `row` down and of `col` across
+/// (one column headed `single` without a `col` axis), one table per
+/// combination of the other axes (in spec order, named like
+/// [`combinations`]), each value the lower end of its error bracket rounded
+/// down ([`round_down`]); a case that did not end "ok" shows "not-ok".
+struct Wide<'a> {
+    row: usize,
+    col: Option<usize>,
+    single: &'a str,
+    what: &'a str,
+    value: fn(&Cell) -> Option<f64>,
+}
+
+fn wide_tables(
+    f: &Family,
+    cells: &[Cell],
+    spec_hash: &str,
+    w: &Wide<'_>,
+) -> Vec<(String, Vec<u8>)> {
     let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
     let index = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
     let others: Vec<usize> = (0..f.axes.len())
-        .filter(|&a| a != la && Some(a) != ha)
+        .filter(|&a| a != w.row && Some(a) != w.col)
         .collect();
     let count: usize = others.iter().map(|&a| lens[a]).product();
     let mut out = Vec::new();
@@ -834,27 +839,25 @@ fn physical_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, 
             env!("CARGO_PKG_VERSION")
         );
         let _ = writeln!(b, "# {}", CAVEATS);
-        let _ = writeln!(
-            b,
-            "# Mcr in kN·m (the largest |M| at the elastic critical load), length down, load height across; values rounded \
-             down to the digits their error estimate supports"
-        );
-        let mut header = vec!["length".to_string()];
-        match ha {
-            Some(h) => header
-                .extend((0..lens[h]).map(|i| format!("height={}", axis_label(&f.axes[h], i, f)))),
-            None => header.push(MCR_COLUMN.to_string()),
+        let _ = writeln!(b, "# {}", w.what);
+        let mut header = vec![f.axes[w.row].column().to_string()];
+        match w.col {
+            Some(h) => header.extend(
+                (0..lens[h])
+                    .map(|i| format!("{}={}", f.axes[h].column(), axis_label(&f.axes[h], i, f))),
+            ),
+            None => header.push(w.single.to_string()),
         }
         let _ = writeln!(b, "{}", header.join(","));
-        for li in 0..lens[la] {
-            idx[la] = li;
-            let mut line = vec![axis_label(&f.axes[la], li, f)];
-            for hi in 0..ha.map_or(1, |h| lens[h]) {
-                if let Some(h) = ha {
-                    idx[h] = hi;
+        for ri in 0..lens[w.row] {
+            idx[w.row] = ri;
+            let mut line = vec![axis_label(&f.axes[w.row], ri, f)];
+            for ci in 0..w.col.map_or(1, |h| lens[h]) {
+                if let Some(h) = w.col {
+                    idx[h] = ci;
                 }
                 let cell = &cells[index(&idx)];
-                line.push(match (cell.ok, cell.mcr, cell.error_estimate) {
+                line.push(match (cell.ok, (w.value)(cell), cell.error_estimate) {
                     (true, Some(m), Some(e)) => round_down(m, e),
                     _ => "not-ok".into(),
                 });
@@ -869,70 +872,51 @@ fn physical_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, 
 /// Wide print tables of a family with both a κ and a ζ axis: μcr with κ
 /// down and ζ across, one table per combination of the other axes (in spec
 /// order), values rounded down to the digits their error estimate supports;
-/// a case that did not end "ok" shows its status. Returns (file name, bytes).
+/// a case that did not end "ok" shows its status. A physical family with a
+/// `length` axis gets Mcr (kN·m) with the length down and the load height
+/// across (one column without a height axis). Returns (file name, bytes).
 pub fn print_tables(f: &Family, cells: &[Cell], spec_hash: &str) -> Vec<(String, Vec<u8>)> {
+    let find = |c: &str| {
+        f.axes
+            .iter()
+            .position(|a| matches!(a, Axis::Case { column, .. } if *column == c))
+    };
     if f.is_physical() {
-        return physical_tables(f, cells, spec_hash);
+        let Some(row) = find("length") else {
+            return Vec::new();
+        };
+        return wide_tables(
+            f,
+            cells,
+            spec_hash,
+            &Wide {
+                row,
+                col: find("height"),
+                single: MCR_COLUMN,
+                what: "Mcr in kN·m (the largest |M| at the elastic critical load), length down, load height across; values \
+                       rounded down to the digits their error estimate supports",
+                value: |c| c.mcr,
+            },
+        );
     }
     let ka = f.axes.iter().position(|a| matches!(a, Axis::Kappa(_)));
     let za = f.axes.iter().position(|a| matches!(a, Axis::Zeta(_)));
-    let (Some(ka), Some(za)) = (ka, za) else {
+    let (Some(row), Some(col)) = (ka, za) else {
         return Vec::new();
     };
-    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
-    let index = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
-    let mut out = Vec::new();
-    for combo in combinations(f) {
-        let mut idx = combo.index.clone();
-        let others: Vec<usize> = combo.axes.clone();
-        let combo_labels: Vec<String> = combo.labels.iter().map(|(_, v)| v.clone()).collect();
-        let combo_name = combo.name.clone();
-        let combo = combo_labels;
-        let mut b: Vec<u8> = Vec::new();
-        let _ = writeln!(b, "# {}", crate::CAUTION);
-        let _ = writeln!(
-            b,
-            "# family {} ({}); ltb-atlas {}; spec sha256 {spec_hash}",
-            f.name,
-            if combo.is_empty() {
-                "all cases".to_string()
-            } else {
-                others
-                    .iter()
-                    .zip(&combo)
-                    .map(|(&a, v)| format!("{} = {v}", f.axes[a].column()))
-                    .collect::<Vec<_>>()
-                    .join(", ")
-            },
-            env!("CARGO_PKG_VERSION")
-        );
-        let _ = writeln!(b, "# {}", CAVEATS);
-        let _ = writeln!(
-            b,
-            "# mu_cr = Mcr*L/sqrt(E*Iz*G*It), kappa down, zeta across (height above the shear centre; \"kappa\" = top flange \
-             centroid of a doubly symmetric I-section); values rounded down to the digits their error estimate supports"
-        );
-        let mut header = vec!["kappa".to_string()];
-        for zi in 0..lens[za] {
-            header.push(format!("zeta={}", axis_label(&f.axes[za], zi, f)));
-        }
-        let _ = writeln!(b, "{}", header.join(","));
-        for ki in 0..lens[ka] {
-            let mut line = vec![axis_label(&f.axes[ka], ki, f)];
-            for zi in 0..lens[za] {
-                idx[ka] = ki;
-                idx[za] = zi;
-                let cell = &cells[index(&idx)];
-                line.push(match (cell.ok, cell.mu_cr, cell.error_estimate) {
-                    (true, Some(m), Some(e)) => round_down(m, e),
-                    _ => "not-ok".into(),
-                });
-            }
-            let _ = writeln!(b, "{}", line.join(","));
-        }
-        out.push((format!("{}.{combo_name}.table.csv", f.name), b));
-    }
-    out
+    wide_tables(
+        f,
+        cells,
+        spec_hash,
+        &Wide {
+            row,
+            col: Some(col),
+            single: "mu_cr",
+            what: "mu_cr = Mcr*L/sqrt(E*Iz*G*It), kappa down, zeta across (height above the shear centre; \"kappa\" = top flange \
+                   centroid of a doubly symmetric I-section); values rounded down to the digits their error estimate supports",
+            value: |c| c.mu_cr,
+        },
+    )
 }
 
 ////////////////////////////////////////////////////////////////////////////////

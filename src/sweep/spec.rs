@@ -60,21 +60,8 @@ pub struct Spec {
 /// case paths start.
 pub fn parse_spec(text: &str, origin: &str, dir: &Path) -> Result<Spec, CaseError> {
     let src = Source { text, origin };
-    let root = DeTable::parse(text).map_err(|e| {
-        let span = e.span().unwrap_or(0..0);
-        src.error(
-            &span,
-            "",
-            format!("TOML syntax error: {}", e.message().trim()),
-        )
-    })?;
-    let top_span = 0..0;
-    let top = Tab {
-        src: &src,
-        path: "",
-        span: &top_span,
-        t: root.get_ref(),
-    };
+    let root = src.parse()?;
+    let top = Tab::top(&src, root.get_ref());
     top.check_keys(TOP_KEYS, &|_| None)?;
     let fams = top.tables("family")?;
     if fams.is_empty() {

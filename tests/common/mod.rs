@@ -13,6 +13,27 @@
 #![allow(dead_code)]
 
 use ltb_atlas::model::{Axial, Fixity, Load, Member, Restraint, Support};
+use std::path::{Path, PathBuf};
+
+/// The typst 0.15.1 binary for end-to-end PDF tests: `TYPST_BIN`, else the
+/// stable tools folder that `scripts/install-typst` fills (`LTB_TOOLS_DIR`
+/// or `~/.cache/ltb-atlas-tools`). Panics, never skips, without it: the
+/// README's test command installs it first.
+pub fn typst() -> PathBuf {
+    if let Some(p) = std::env::var_os("TYPST_BIN").filter(|p| !p.is_empty()) {
+        return PathBuf::from(p);
+    }
+    let tools = std::env::var_os("LTB_TOOLS_DIR")
+        .map(PathBuf::from)
+        .or_else(|| std::env::var_os("HOME").map(|h| Path::new(&h).join(".cache/ltb-atlas-tools")));
+    if let Some(t) = tools.map(|t| t.join("bin/typst")).filter(|p| p.is_file()) {
+        return t;
+    }
+    panic!(
+        "typst 0.15.1 is needed for the end-to-end PDF tests: run scripts/install-typst (the README's test command does) or set TYPST_BIN"
+    );
+}
+
 use ltb_atlas::solve::{Direction, Settings, Solution, Status, solve};
 use std::f64::consts::PI;
 
