@@ -227,7 +227,7 @@ zeta = [-1.0, 1.5]
 [[rule]]
 name = "office-psi"
 form = "mu"
-mu = "1.13*PI*sqrt(1 + kappa^2) * (1 + 0*psi)"
+mu = "1.13*pi*sqrt(1 + kappa^2) * (1 + 0*psi)"
 source = "Invented office sheet C (test data)"
 "#;
 

@@ -137,11 +137,7 @@ fn convert(n: &Node<DefaultNumericTypes>, params: &[String]) -> Result<Expr, Fit
             "pi" => Expr::Var(Var::Pi),
             name => match params.iter().position(|p| p == name) {
                 Some(i) => Expr::Param(i),
-                None => {
-                    return Err(FitError::Expression(format!(
-                        "unknown name `{name}`: declare it under `parameters` with a start value, or use kappa, zeta, pi"
-                    )));
-                }
+                None => return Err(FitError::UnknownName(name.to_string())),
             },
         },
         Operator::FunctionIdentifier { identifier } => {

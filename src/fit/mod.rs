@@ -42,9 +42,15 @@ pub enum FitError {
     /// The data cannot carry the form (too few points, bad values).
     #[error("{0}")]
     Data(String),
-    /// The expression does not parse or uses unknown names.
+    /// The expression does not parse or uses names it may not.
     #[error("expression: {0}")]
     Expression(String),
+    /// The expression uses a name that is neither a variable nor a declared
+    /// parameter.
+    #[error(
+        "expression: unknown name `{0}`: declare it under `parameters` with a start value, or use kappa, zeta, pi"
+    )]
+    UnknownName(String),
     /// The nonlinear fit failed.
     #[error("the nonlinear fit did not converge: {0}")]
     NotConverged(String),

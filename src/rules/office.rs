@@ -5,7 +5,7 @@
 //! [[rule]]
 //! name = "office-udl"                  # [a-z0-9][a-z0-9-]*, not a built-in name
 //! form = "three-factor"                # C1/C2 for mu = C1*pi*[sqrt(1+kappa^2+(C2*zeta)^2) - C2*zeta]; or "mu"
-//! c1 = "1.13 + 0.02*kappa"             # expressions in kappa, zeta, psi (exmex syntax) ...
+//! c1 = "1.13 + 0.02*kappa"             # expressions in kappa, zeta, psi ...
 //! c2 = "0.45"
 //! # mu = "..."                         # ... or mu directly (form = "mu")
 //! # table = "office-c1.csv"            # ... or a CSV table (relative to the spec): a key column
@@ -20,9 +20,9 @@
 //! psi = [-1.0, 1.0]
 //! ```
 //!
-//! Expressions use exmex syntax: `+ - * / ^`, `sqrt`, `abs`, `min`, `max`, `exp`, `ln`, ...,
-//! the constants `PI` (or `π`) and `E` (Euler's number, not Young's modulus); any other name is
-//! refused with its location.
+//! Expressions are those of fitted formulas (`crate::fit::expr`): numbers,
+//! `kappa`, `zeta`, `psi`, `pi`, `+ - * / ^`, parentheses and `sqrt`, `ln`,
+//! `exp`, `abs`; any other name is refused with its location.
 //!
 //! ζ in an office rule is the load height on the destabilising side positive
 //! (the three-factor formula's convention); ψ is the ratio of the smaller to
@@ -31,7 +31,7 @@
 //! table's key range or the limits the rule is not applicable.
 //!
 //! # References
-//! - exmex 0.21 (expression parser), <https://docs.rs/exmex/0.21.0>.
+//! - evalexpr 13 (the parser behind `crate::fit::expr`), <https://docs.rs/evalexpr/13>.
 //! - NCCI SN003a-EN-EU, §3 (the three-factor form the C1/C2 expressions feed).
 
 use super::pattern::{Pattern, Span};
@@ -39,7 +39,6 @@ use super::{Outcome, RuleInfo, three_factor_mu};
 use crate::case::CaseError;
 use crate::case::schema::{Tab, number_of, type_name};
 use crate::case::span::Source;
-use exmex::prelude::*;
 use toml::de::DeValue;
 
 /// Which members an office rule covers.
@@ -53,45 +52,58 @@ pub enum MemberKind {
     Any,
 }
 
-/// A parsed expression with its text.
+/// A parsed expression with its text: the expression language of fitted
+/// formulas ([`crate::fit::expr`]), with ψ as its one named parameter.
 #[derive(Debug, Clone)]
 pub struct Expr {
     /// As written.
     pub text: String,
-    flat: FlatEx<f64>,
+    tree: crate::fit::expr::Expr,
+}
+
+/// True when `e` contains a node for which `hit` holds.
+fn mentions(e: &crate::fit::expr::Expr, hit: &dyn Fn(&crate::fit::expr::Expr) -> bool) -> bool {
+    use crate::fit::expr::Expr as E;
+    hit(e)
+        || match e {
+            E::Neg(a) | E::Call(_, a) => mentions(a, hit),
+            E::Add(a, b) | E::Sub(a, b) | E::Mul(a, b) | E::Div(a, b) | E::Pow(a, b) => {
+                mentions(a, hit) || mentions(b, hit)
+            }
+            _ => false,
+        }
 }
 
 impl Expr {
     fn parse(text: &str) -> Result<Expr, String> {
-        let flat = exmex::parse::<f64>(text)
-            .map_err(|e| format!("cannot read the expression \"{text}\": {e}"))?;
-        if let Some(v) = flat
-            .var_names()
-            .iter()
-            .find(|v| !["kappa", "zeta", "psi"].contains(&v.as_str()))
-        {
-            return Err(format!(
-                "unknown variable `{v}` in \"{text}\": the expression may use kappa, zeta and psi"
-            ));
-        }
+        let tree = crate::fit::expr::parse(text, &["psi".to_string()]).map_err(|e| match e {
+            crate::fit::FitError::UnknownName(n) => format!(
+                "unknown variable `{n}` in \"{text}\": the expression may use kappa, zeta, psi and pi{}",
+                if n == "PI" { " (write pi for π)" } else { "" }
+            ),
+            other => format!("cannot read the expression \"{text}\": {other}"),
+        })?;
         Ok(Expr {
             text: text.to_string(),
-            flat,
+            tree,
         })
     }
     fn uses(&self, v: &str) -> bool {
-        self.flat.var_names().iter().any(|n| n == v)
+        use crate::fit::expr::{Expr as E, Var};
+        mentions(&self.tree, &|e| {
+            matches!(
+                (v, e),
+                ("psi", E::Param(0)) | ("kappa", E::Var(Var::Kappa)) | ("zeta", E::Var(Var::Zeta))
+            )
+        })
     }
     fn eval(&self, kappa: f64, zeta: f64, psi: Option<f64>) -> Result<f64, String> {
-        let mut vals = Vec::new();
-        for n in self.flat.var_names() {
-            vals.push(match n.as_str() {
-                "kappa" => kappa,
-                "zeta" => zeta,
-                _ => psi.ok_or("psi is defined only for end-moment patterns")?,
-            });
-        }
-        let x = self.flat.eval(&vals).map_err(|e| e.to_string())?;
+        let psi = if self.uses("psi") {
+            psi.ok_or("psi is defined only for end-moment patterns")?
+        } else {
+            0.0
+        };
+        let x = crate::fit::expr::eval(&self.tree, kappa, zeta, &[psi]);
         if x.is_finite() {
             Ok(x)
         } else {
