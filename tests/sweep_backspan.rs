@@ -102,3 +102,35 @@ fn a_backspan_table_without_the_axis_is_refused() {
     let e = parse_spec(&text, "t.toml", Path::new(".")).unwrap_err();
     assert!(e.to_string().contains("must be > 0"), "{e}");
 }
+
+#[test]
+fn rule_checks_of_a_backspan_family_name_the_ratio_of_every_row() {
+    // The check writes the sweep's point columns (common practice, no
+    // source): every row must say which backspan it belongs to.
+    let dir = tempfile::tempdir().unwrap();
+    let spec = dir.path().join("s.toml");
+    std::fs::write(
+        &spec,
+        SPEC.replace(
+            "backspan_ratio = [1.0, 2.5]",
+            "backspan_ratio = [1.0, 2.5]\nrules = [\"aisc-cb\"]",
+        ),
+    )
+    .unwrap();
+    let ls = stage::load_spec(&spec).unwrap();
+    let opts = stage::Options {
+        cache: stage::CacheChoice::Off,
+        quiet: true,
+        ..Default::default()
+    };
+    stage::check::run(&ls, &dir.path().join("out"), &opts).unwrap();
+    let text = std::fs::read_to_string(dir.path().join("out/overhang.aisc-cb.csv")).unwrap();
+    let mut lines = text.lines().filter(|l| !l.starts_with('#'));
+    let header: Vec<&str> = lines.next().unwrap().split(',').collect();
+    let col = header.iter().position(|h| *h == "backspan_ratio").unwrap();
+    let values: Vec<String> = lines
+        .map(|l| l.split(',').nth(col).unwrap().to_string())
+        .collect();
+    assert_eq!(values.len(), 8);
+    assert!(values.iter().all(|v| v == "1" || v == "2.5"), "{values:?}");
+}

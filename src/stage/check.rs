@@ -15,7 +15,7 @@ use super::{LoadedSpec, Options, family_rows, progress_bar, solve_points, write_
 use crate::rules::compare::{self, Bracket, Edge, Verdict};
 use crate::rules::office::{parse_family_rules, parse_office_rules};
 use crate::rules::{Outcome, Rule, RuleInfo};
-use crate::sweep::{self, Axis, Direction, Family, Row, fmt_num};
+use crate::sweep::{self, Axis, Family, Row, fmt_num};
 use anyhow::{Context, Result};
 use serde_json::json;
 use std::collections::BTreeMap;
@@ -333,35 +333,6 @@ fn preamble(
     )
 }
 
-fn point_columns(f: &Family) -> Vec<String> {
-    let mut h: Vec<String> = f.axes.iter().map(|a| a.column().to_string()).collect();
-    for c in sweep::POINT_COLUMNS {
-        if !h.iter().any(|x| x == c) {
-            h.push(c.to_string());
-        }
-    }
-    h
-}
-
-fn point_values(f: &Family, r: &Row) -> Vec<String> {
-    let mut paths = r.point.paths.iter();
-    point_columns(f)
-        .iter()
-        .map(|c| match c.as_str() {
-            "kappa" => fmt_num(r.point.kappa),
-            "zeta" => r.point.zeta.map(fmt_num).unwrap_or_default(),
-            "direction" => if r.point.direction == Direction::Up {
-                "up"
-            } else {
-                "down"
-            }
-            .into(),
-            "variant" => r.point.variant.clone().unwrap_or_default(),
-            _ => paths.next().map(|v| fmt_num(*v)).unwrap_or_default(),
-        })
-        .collect()
-}
-
 fn rule_csv(
     f: &Family,
     info: &RuleInfo,
@@ -375,7 +346,7 @@ fn rule_csv(
     preamble(&mut b, f, info, ls, opts.tolerance, rule_tol)?;
     {
         let mut w = csv::Writer::from_writer(&mut b);
-        let mut h = point_columns(f);
+        let mut h = sweep::point_columns(f);
         h.extend(
             [
                 "mcr_ratio",
@@ -391,7 +362,7 @@ fn rule_csv(
         w.write_record(&h)?;
         let opt = |x: Option<f64>| x.filter(|v| v.is_finite()).map(fmt_num).unwrap_or_default();
         for (r, c) in rows.iter().zip(cases) {
-            let mut rec = point_values(f, r);
+            let mut rec = sweep::point_values(f, &r.point);
             rec.extend([
                 opt(c.ratio),
                 c.verdict.as_str().to_string(),

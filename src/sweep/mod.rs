@@ -455,12 +455,7 @@ pub const RESULT_COLUMNS: [&str; 7] = [
 
 /// The CSV header of a family.
 pub fn header(f: &Family) -> Vec<String> {
-    let mut h: Vec<String> = f.axes.iter().map(|a| a.column().to_string()).collect();
-    for c in POINT_COLUMNS {
-        if !h.iter().any(|x| x == c) {
-            h.push(c.to_string());
-        }
-    }
+    let mut h = point_columns(f);
     h.extend(RESULT_COLUMNS.map(String::from));
     if f.is_physical() {
         h.push(MCR_COLUMN.to_string());
@@ -565,17 +560,24 @@ pub fn preamble(w: &mut dyn Write, f: &Family, spec_hash: &str, tolerance: f64) 
     Ok(())
 }
 
-/// Write one row.
-pub fn write_row(
-    w: &mut csv::Writer<&mut dyn Write>,
-    f: &Family,
-    r: &Row,
-) -> Result<(), csv::Error> {
-    let mut rec: Vec<String> = Vec::new();
-    let mut paths = r.point.paths.iter();
-    for c in header(f) {
-        let p = &r.point;
-        rec.push(match c.as_str() {
+/// The point's columns of a family (its axes, then kappa, zeta, direction
+/// where they are not axes), in header order.
+pub fn point_columns(f: &Family) -> Vec<String> {
+    let mut h: Vec<String> = f.axes.iter().map(|a| a.column().to_string()).collect();
+    for c in POINT_COLUMNS {
+        if !h.iter().any(|x| x == c) {
+            h.push(c.to_string());
+        }
+    }
+    h
+}
+
+/// The point's values for [`point_columns`], as the CSV writes them.
+pub fn point_values(f: &Family, p: &Point) -> Vec<String> {
+    let mut paths = p.paths.iter();
+    point_columns(f)
+        .iter()
+        .map(|c| match c.as_str() {
             "kappa" => fmt_num(p.kappa),
             "zeta" => opt(p.zeta),
             "direction" => if p.direction == Direction::Up {
@@ -586,21 +588,35 @@ pub fn write_row(
             .into(),
             "variant" => p.variant.clone().unwrap_or_default(),
             "backspan_ratio" => opt(p.backspan),
-            MCR_COLUMN => opt(r.mu_cr.zip(p.mcr_scale).map(|(m, s)| m * s)),
             "section" | "length" | "height" => p
                 .case_labels
                 .iter()
-                .find(|(col, _)| *col == c)
+                .find(|(col, _)| col == c)
                 .map(|(_, v)| v.clone())
                 .unwrap_or_default(),
+            _ => paths.next().map(|v| fmt_num(*v)).unwrap_or_default(),
+        })
+        .collect()
+}
+
+/// Write one row.
+pub fn write_row(
+    w: &mut csv::Writer<&mut dyn Write>,
+    f: &Family,
+    r: &Row,
+) -> Result<(), csv::Error> {
+    let p = &r.point;
+    let mut rec = point_values(f, p);
+    for c in &header(f)[rec.len()..] {
+        rec.push(match c.as_str() {
+            MCR_COLUMN => opt(r.mu_cr.zip(p.mcr_scale).map(|(m, s)| m * s)),
             "mu_cr" => opt(r.mu_cr),
             "mu_ratio" => opt(r.mu_cr.map(|m| m / r.mu0)),
             "le_over_l" => opt(r.mu_cr.map(|m| le_over_l(m, p.kappa))),
             "load_factor" => opt(r.load_factor),
             "error_estimate" => opt(r.error_estimate),
             "elements" => r.elements.to_string(),
-            "status" => r.status.clone(),
-            _ => paths.next().map(|v| fmt_num(*v)).unwrap_or_default(),
+            _ => r.status.clone(),
         });
     }
     w.write_record(&rec)
