@@ -56,6 +56,71 @@ fn fam_rules(ls: &LoadedSpec) -> Result<(Vec<Rule>, Vec<Vec<String>>)> {
     Ok((office.into_iter().map(Rule::Office).collect(), lists))
 }
 
+/// A family's `resistance` table: the section, grade and code whose design
+/// resistance weighs each rule's Mcr against the engine's.
+struct FamilyDesign {
+    design: crate::resistance::Design,
+    section: crate::resistance::DesignSection,
+    e: f64,
+    g: f64,
+    lines: Vec<String>,
+}
+
+/// Read every family's optional `resistance` table (the `[design]` keys plus
+/// `section`, an optional `catalogue` file and `e`, `g` in MPa, default
+/// 210 000 and 81 000), with located errors.
+fn fam_designs(ls: &LoadedSpec) -> Result<Vec<Option<FamilyDesign>>> {
+    use crate::case::schema::Tab;
+    use crate::case::span::Source;
+    use crate::resistance::{DesignSection, catalogue, spec::parse_design, yield_strength};
+    let origin = ls.origin();
+    let src = Source {
+        text: &ls.text,
+        origin: &origin,
+    };
+    let root = src.parse()?;
+    let top = Tab::top(&src, root.get_ref());
+    let mut out = Vec::new();
+    for loc in top.tables("family")? {
+        let t = loc.tab(&src);
+        let Some(dloc) = t.table("resistance")? else {
+            out.push(None);
+            continue;
+        };
+        let dt = dloc.tab(&src);
+        let table = parse_design(&dt, &["section", "catalogue", "e", "g"])?;
+        let user = match dt.string("catalogue")? {
+            Some((c, v)) => catalogue::load(&ls.dir().join(&c))
+                .map_err(|e| src.error(&v.span, &v.key, e.to_string()))?,
+            None => Vec::new(),
+        };
+        let Some((name, nv)) = dt.string("section")? else {
+            return Err(dt
+                .err_here("missing `section`: a catalogue name such as \"IPE 300\" (the design ratio needs a section)")
+                .into());
+        };
+        let entry = catalogue::lookup(&name, &user).map_err(|m| src.error(&nv.span, &nv.key, m))?;
+        let section =
+            DesignSection::from_entry(&entry).map_err(|m| src.error(&nv.span, &nv.key, m))?;
+        let (fy, fy_text) = yield_strength(&table.design, &section).map_err(|m| dt.err_here(m))?;
+        let e = dt.num("e")?.map_or(210_000.0, |n| n.value);
+        let g = dt.num("g")?.map_or(81_000.0, |n| n.value);
+        let mut lines = vec![format!(
+            "design consequence: design_ratio = Mb,Rd(Mcr by the rule)/Mb,Rd(Mcr by the engine) for section {} ({}), fy = {fy} MPa ({fy_text}), E = {e} MPa, G = {g} MPa, at the length L = (pi/kappa)*sqrt(E*Iw/(G*It)) that gives the section each row's kappa; above 1 the rule overstates the design resistance",
+            section.name, section.source
+        )];
+        lines.extend(crate::resistance::assumptions(&table.design, &section));
+        out.push(Some(FamilyDesign {
+            design: table.design,
+            section,
+            e,
+            g,
+            lines,
+        }));
+    }
+    Ok(out)
+}
+
 /// The rule-check stage with a given rule tolerance.
 pub fn run_with_tolerance(
     ls: &LoadedSpec,
@@ -69,6 +134,7 @@ pub fn run_with_tolerance(
         );
     }
     let (office, lists) = fam_rules(ls)?;
+    let designs = fam_designs(ls)?;
     let pool = opts.pool()?;
     let settings = opts.settings();
     let mut cache = opts.open_cache()?;
@@ -92,9 +158,16 @@ pub fn run_with_tolerance(
     }
     let bar = progress_bar(total as u64, opts.quiet);
     let plain = !opts.quiet && bar.is_hidden();
-    for (f, names) in ls.spec.families.iter().zip(&lists) {
+    for ((f, names), design) in ls.spec.families.iter().zip(&lists).zip(&designs) {
         if names.is_empty() {
             continue;
+        }
+        if design.is_some() && !f.axes.iter().any(|a| matches!(a, Axis::Kappa(_))) {
+            anyhow::bail!(
+                "{}: family {}: a `resistance` table weighs dimensionless rows by a section; give the family a kappa axis",
+                ls.origin(),
+                f.name
+            );
         }
         let rows = family_rows(f, &settings, &pool, &mut cache)?;
         bar.inc(rows.len() as u64);
@@ -120,9 +193,42 @@ pub fn run_with_tolerance(
                 .zip(&outcomes)
                 .map(|(r, o)| Case::of(r, o, rule_tol))
                 .collect();
+            // The design consequence per compared row: (ratio, length in m).
+            let dratios: Vec<Option<(f64, f64)>> = rows
+                .iter()
+                .zip(&cases)
+                .map(|(r, c)| {
+                    let d = design.as_ref()?;
+                    if c.verdict == Verdict::NotApplicable {
+                        return None;
+                    }
+                    let (mr, mf) = (c.mu_rule?, r.mu_cr?);
+                    crate::resistance::design_ratio_at_kappa(
+                        &d.design,
+                        &d.section,
+                        d.e,
+                        d.g,
+                        r.point.kappa,
+                        mr,
+                        mf,
+                    )
+                    .ok()
+                })
+                .collect();
             files.push((
                 format!("{}.{}.csv", f.name, name),
-                rule_csv(f, &info, &rows, &cases, ls, opts, rule_tol)?,
+                rule_csv(
+                    f,
+                    &info,
+                    &rows,
+                    &cases,
+                    ls,
+                    opts,
+                    rule_tol,
+                    design
+                        .as_ref()
+                        .map(|d| (d.lines.as_slice(), dratios.as_slice())),
+                )?,
             ));
             let mut frontier_rows: Vec<(String, usize, f64, Option<f64>, f64)> = Vec::new();
             let combos = sweep::combinations(f);
@@ -148,6 +254,15 @@ pub fn run_with_tolerance(
                         && max.is_none_or(|m| r > m.0)
                     {
                         max = Some((r, rows[i].point.kappa, rows[i].point.zeta));
+                    }
+                }
+                let mut dmax: MaxAt = None;
+                for (i, d) in dratios.iter().enumerate() {
+                    if let Some((r, _)) = d
+                        && sweep::combination_of(f, i) == combo.name
+                        && dmax.is_none_or(|m| *r > m.0)
+                    {
+                        dmax = Some((*r, rows[i].point.kappa, rows[i].point.zeta));
                     }
                 }
                 let compared =
@@ -203,6 +318,12 @@ pub fn run_with_tolerance(
                     "frontier_branches": branches,
                     "frontier_unrefined": fr.unrefined,
                     "frontier_gaps": fr.gaps,
+                    "design": design.as_ref().map(|d| json!({
+                        "section": d.section.name,
+                        "assumptions": d.lines,
+                        "max_design_ratio": dmax.map(|m| m.0),
+                        "at": dmax.map(|m| json!({"kappa": m.1, "zeta": m.2})),
+                    })),
                 }));
             }
             files.push((
@@ -333,6 +454,11 @@ fn preamble(
     )
 }
 
+/// Lines stating a family's design assumptions and each row's (design
+/// ratio, length in m), when the family has a `resistance` table.
+type DesignColumns<'a> = (&'a [String], &'a [Option<(f64, f64)>]);
+
+#[allow(clippy::too_many_arguments)]
 fn rule_csv(
     f: &Family,
     info: &RuleInfo,
@@ -341,9 +467,15 @@ fn rule_csv(
     ls: &LoadedSpec,
     opts: &Options,
     rule_tol: f64,
+    design: Option<DesignColumns<'_>>,
 ) -> Result<Vec<u8>> {
     let mut b = Vec::new();
     preamble(&mut b, f, info, ls, opts.tolerance, rule_tol)?;
+    if let Some((lines, _)) = design {
+        for l in lines {
+            writeln!(b, "# {l}")?;
+        }
+    }
     {
         let mut w = csv::Writer::from_writer(&mut b);
         let mut h = sweep::point_columns(f);
@@ -359,9 +491,12 @@ fn rule_csv(
             ]
             .map(String::from),
         );
+        if design.is_some() {
+            h.extend(["design_ratio", "length_m"].map(String::from));
+        }
         w.write_record(&h)?;
         let opt = |x: Option<f64>| x.filter(|v| v.is_finite()).map(fmt_num).unwrap_or_default();
-        for (r, c) in rows.iter().zip(cases) {
+        for (i, (r, c)) in rows.iter().zip(cases).enumerate() {
             let mut rec = sweep::point_values(f, &r.point);
             rec.extend([
                 opt(c.ratio),
@@ -372,6 +507,10 @@ fn rule_csv(
                 c.factors.clone(),
                 c.reason.clone(),
             ]);
+            if let Some((_, d)) = design {
+                let (ratio, len) = d[i].unzip();
+                rec.extend([opt(ratio), opt(len)]);
+            }
             w.write_record(&rec)?;
         }
         w.flush()?;
