@@ -126,15 +126,18 @@ enum Command {
     Chart {
         /// The spec (TOML) the outputs come from.
         spec: PathBuf,
-        /// Folder of the sweep output.
+        /// Folder of the sweep output (needed when the spec has families).
         #[arg(long, value_name = "DIR")]
-        sweep: PathBuf,
+        sweep: Option<PathBuf>,
         /// Folder of the fit output (fitted curves and validity ranges).
         #[arg(long, value_name = "DIR")]
         fit: Option<PathBuf>,
         /// Folder of the rule-check output (ratio maps).
         #[arg(long, value_name = "DIR")]
         check: Option<PathBuf>,
+        /// Folder of the resistance output (resistance curves).
+        #[arg(long, value_name = "DIR")]
+        resistance: Option<PathBuf>,
         /// Output folder (created if needed).
         #[arg(long)]
         out: PathBuf,
@@ -299,12 +302,27 @@ fn run(cli: Cli) -> Result<ExitCode> {
             sweep,
             fit,
             check,
+            resistance,
             out,
             stage,
         } => {
             let opts = stage.options();
-            let ls = stage::load_spec(&spec)?;
-            let src = stage::chart::Sources { sweep, fit, check };
+            // A resistance spec may hold no family.
+            let ls = stage::resistance::load(&spec)?;
+            let sweep = match sweep {
+                Some(s) => s,
+                None if ls.spec.families.is_empty() => PathBuf::new(),
+                None => anyhow::bail!(
+                    "{}: the spec has families: give their sweep output with --sweep DIR",
+                    spec.display()
+                ),
+            };
+            let src = stage::chart::Sources {
+                sweep,
+                fit,
+                check,
+                resistance,
+            };
             stage::chart::run(&ls, &src, &out, &opts)?;
             Ok(ExitCode::SUCCESS)
         }

@@ -71,6 +71,7 @@ fn charts_from_stage_outputs() {
         sweep: sweep.clone(),
         fit: None,
         check: Some(check),
+        resistance: None,
     };
     let out1 = tmp.path().join("c1");
     let out2 = tmp.path().join("c2");
@@ -133,6 +134,7 @@ fn unknown_chart_kind_is_located() {
         sweep: tmp.path().join("none"),
         fit: None,
         check: None,
+        resistance: None,
     };
     let e = chart::run(&ls, &src, &tmp.path().join("out"), &opts()).unwrap_err();
     let msg = format!("{e:#}");
@@ -158,6 +160,7 @@ fn stale_sweep_output_is_refused() {
         sweep,
         fit: None,
         check: None,
+        resistance: None,
     };
     let e = chart::run(&ls2, &src, &tmp.path().join("out"), &opts()).unwrap_err();
     assert!(
@@ -194,6 +197,7 @@ fn fitted_curves_and_validity_from_a_fit_output() {
         sweep,
         fit: Some(fit),
         check: None,
+        resistance: None,
     };
     let out = tmp.path().join("out");
     chart::run(&ls, &src, &out, &opts()).unwrap();
@@ -220,4 +224,42 @@ fn fitted_curves_and_validity_from_a_fit_output() {
     assert!(down.contains("fill=\"#E6E6E6\""));
     assert!(!up.contains("fill=\"#E6E6E6\""));
     assert!(down.contains("outside the fitted"));
+}
+
+#[test]
+fn resistance_tables_become_resistance_charts() {
+    // One chart per print table of the resistance stage, one curve per
+    // section (common practice for a chart driver, no source).
+    let tmp = tempfile::tempdir().unwrap();
+    let spec = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("templates/resistance/floor-beams.toml");
+    let ls = ltb_atlas::stage::resistance::load(&spec).unwrap();
+    let res = tmp.path().join("res");
+    ltb_atlas::stage::resistance::run(&ls, &res, &opts()).unwrap();
+    let tables: Vec<String> = std::fs::read_dir(&res)
+        .unwrap()
+        .filter_map(|e| e.ok()?.file_name().into_string().ok())
+        .filter(|n| n.ends_with(".table.csv"))
+        .collect();
+    let src = chart::Sources {
+        sweep: std::path::PathBuf::new(),
+        fit: None,
+        check: None,
+        resistance: Some(res.clone()),
+    };
+    let out = tmp.path().join("charts");
+    chart::run(&ls, &src, &out, &opts()).unwrap();
+    let index: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("index.json")).unwrap()).unwrap();
+    let charts = index["charts"].as_array().unwrap();
+    assert_eq!(charts.len(), tables.len());
+    for c in charts {
+        assert_eq!(c["kind"], "resistance");
+        let svg = std::fs::read_to_string(out.join(c["file"].as_str().unwrap())).unwrap();
+        roxmltree::Document::parse(&svg).expect("well-formed SVG");
+        // Five sections in the template: five legend entries.
+        for s in ["IPE 240", "IPE 300", "IPE 360", "HE 240 A", "HE 240 B"] {
+            assert!(svg.contains(s), "{s}");
+        }
+    }
 }

@@ -31,8 +31,11 @@ fn supports() -> impl Strategy<Value = (Support, Support)> {
 proptest! {
     #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
 
+    // Point loads stay 5e-3 L or more from the end: within about 1e-3 of the
+    // neighbouring span the in-plane analysis refuses a case with its reason
+    // (src/fe/inplane.rs; its unit test covers that side).
     #[test]
-    fn mirror_and_scale(kappa in 0.1f64..3.0, zeta in -1.0f64..1.0, at in 0.2f64..1.0, c in 0.1f64..10.0, sup in supports()) {
+    fn mirror_and_scale(kappa in 0.1f64..3.0, zeta in -1.0f64..1.0, at in 0.2f64..0.995, c in 0.1f64..10.0, sup in supports()) {
         let s = Settings::default();
         let (a, b) = sup;
         let m = Member::new(kappa, a, b).with_load(point(at, zeta));

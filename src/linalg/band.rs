@@ -76,6 +76,11 @@ impl BandMatrix {
         let k = self.idx(i, j);
         self.a[k] += v;
     }
+    /// Set entry (i, j) of the lower triangle (i ≥ j, within the band).
+    pub fn set_lower(&mut self, i: usize, j: usize, v: f64) {
+        let k = self.idx(i, j);
+        self.a[k] = v;
+    }
     /// Multiply every entry by `s`.
     pub fn scale(&mut self, s: f64) {
         self.a.iter_mut().for_each(|x| *x *= s);

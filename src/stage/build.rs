@@ -116,8 +116,8 @@ const STEPS: &[(&str, Step)] = &[
     ("sweep", step_sweep),
     ("fit", step_fit),
     ("check", step_check),
-    ("charts", step_charts),
     ("resistance", step_resistance),
+    ("charts", step_charts),
     ("tables", step_tables),
     ("fonts", step_fonts),
     ("pages", step_pages),
@@ -270,6 +270,7 @@ fn step_charts(cx: &mut Ctx<'_>) -> Result<()> {
         sweep: cx.out.join("sweep"),
         fit: Some(cx.out.join("fit")),
         check: Some(cx.out.join("check")),
+        resistance: Some(cx.out.join("resistance")),
     };
     // The pages print the caution and caveats on every page.
     super::chart::run_with(

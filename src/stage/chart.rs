@@ -37,6 +37,9 @@ pub struct Sources {
     pub fit: Option<PathBuf>,
     /// The check output (`<family>.<rule>.csv`, `.frontier.csv`), if any.
     pub check: Option<PathBuf>,
+    /// The resistance output (`<name>.<case>.<grade>.<height>.table.csv`),
+    /// if any: one resistance chart per table.
+    pub resistance: Option<PathBuf>,
 }
 
 /// Chart settings the caller chooses.
@@ -149,6 +152,9 @@ pub fn run_with(
                 _ => unreachable!("kinds are checked when parsed"),
             }
         }
+    }
+    if let Some(dir) = &src.resistance {
+        resistance_charts(dir, settings, &mut files, &mut index)?;
     }
     // Everything drawn before anything is written: no partial output.
     for (name, svg) in &files {
@@ -1047,6 +1053,113 @@ fn mode_shapes(
                 "Lateral displacement of both flanges and twist along the member at the critical load, family {} ({}).",
                 f.name,
                 plain(&sub)
+            ),
+        });
+        files.push((file, svg));
+    }
+    Ok(())
+}
+
+/// One resistance chart per print table of the resistance stage: Mb,Rd
+/// against the member length, one curve per section (the table's values,
+/// rounded down as printed), with the table's code lines as notes. The
+/// index names the resistance table in `family`.
+fn resistance_charts(
+    dir: &Path,
+    settings: &Settings,
+    files: &mut Vec<(String, String)>,
+    index: &mut Vec<Entry>,
+) -> Result<()> {
+    if !dir.is_dir() {
+        return Ok(());
+    }
+    let mut names: Vec<String> = std::fs::read_dir(dir)
+        .with_context(|| format!("cannot read the resistance folder {}", dir.display()))?
+        .filter_map(|e| e.ok()?.file_name().into_string().ok())
+        .filter(|n| n.ends_with(".table.csv"))
+        .collect();
+    names.sort();
+    for n in names {
+        let p = dir.join(&n);
+        let text =
+            std::fs::read_to_string(&p).with_context(|| format!("cannot read {}", p.display()))?;
+        // The table's own code lines, and of the grade and load-case lines
+        // only those of this table (<name>.<case>.<grade>.<height>).
+        let parts: Vec<&str> = n.trim_end_matches(".table.csv").split('.').collect();
+        let (case, grade) = (parts.get(1).copied(), parts.get(2).copied());
+        let notes: Vec<String> = text
+            .lines()
+            .filter_map(|l| l.strip_prefix("# "))
+            .filter(|l| {
+                l.starts_with("code:")
+                    || l.starts_with("method:")
+                    || l.starts_with("γM1")
+                    || l.starts_with("φ")
+                    || case.is_some_and(|c| l.starts_with(&format!("load case {c}:")))
+                    || grade.is_some_and(|g| l.to_lowercase().starts_with(&format!("grade {g} /")))
+            })
+            .map(String::from)
+            .collect();
+        let body: String = text
+            .lines()
+            .filter(|l| !l.starts_with('#'))
+            .collect::<Vec<_>>()
+            .join("\n");
+        let mut rdr = csv::ReaderBuilder::new().from_reader(body.as_bytes());
+        let header: Vec<String> = rdr
+            .headers()
+            .with_context(|| format!("{}: no header", p.display()))?
+            .iter()
+            .map(String::from)
+            .collect();
+        let mut series: Vec<(String, Vec<(f64, f64)>)> = header
+            .iter()
+            .skip(1)
+            .map(|h| (h.clone(), Vec::new()))
+            .collect();
+        for rec in rdr.records() {
+            let rec = rec.with_context(|| format!("{}: unreadable row", p.display()))?;
+            let Some(l) = rec.get(0).and_then(|x| x.parse::<f64>().ok()) else {
+                continue;
+            };
+            for (k, s) in series.iter_mut().enumerate() {
+                if let Some(v) = rec.get(k + 1).and_then(|x| x.parse::<f64>().ok()) {
+                    s.1.push((l, v));
+                }
+            }
+        }
+        series.retain(|s| s.1.len() >= 2);
+        if series.is_empty() {
+            continue;
+        }
+        let stem = n.trim_end_matches(".table.csv").to_string();
+        let (table, rest) = stem.split_once('.').unwrap_or((stem.as_str(), ""));
+        let title = format!("{table}: design resistance");
+        let subtitle = rest.replace('.', ", ");
+        let units = crate::chart::xy::ResistanceUnits {
+            length: "m".into(),
+            resistance: "kN·m".into(),
+        };
+        let chart = crate::chart::xy::resistance_chart(
+            &title,
+            &subtitle,
+            series,
+            &units,
+            notes,
+            settings.caution,
+        );
+        let svg = crate::chart::xy::render(&chart).map_err(|e| anyhow!("{}: {e}", p.display()))?;
+        let file = format!("{stem}.resistance.svg");
+        index.push(Entry {
+            file: file.clone(),
+            family: table.to_string(),
+            kind: "resistance",
+            quantity: None,
+            combination: Some(rest.to_string()),
+            rule: None,
+            title,
+            caption: format!(
+                "Design buckling resistance moment against member length, one curve per section ({subtitle}); values as printed in {n}, rounded down."
             ),
         });
         files.push((file, svg));
