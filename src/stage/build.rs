@@ -519,6 +519,19 @@ pub fn page_inputs<'a>(cx: &'a Ctx<'_>) -> Result<Inputs<'a>> {
     } else {
         None
     };
+    let rdir = cx.out.join("resistance");
+    let mut resistance = Vec::new();
+    if rdir.is_dir() {
+        let mut names: Vec<String> = std::fs::read_dir(&rdir)?
+            .filter_map(|e| e.ok()?.file_name().into_string().ok())
+            .filter(|n| n.ends_with(".table.csv"))
+            .collect();
+        names.sort();
+        for n in names {
+            let text = std::fs::read_to_string(rdir.join(&n))?;
+            resistance.push((n, text));
+        }
+    }
     Ok(Inputs {
         handbook: cx.hb,
         spec: &cx.ls.spec,
@@ -531,6 +544,7 @@ pub fn page_inputs<'a>(cx: &'a Ctx<'_>) -> Result<Inputs<'a>> {
         fits,
         rules,
         charts,
+        resistance,
     })
 }
 
