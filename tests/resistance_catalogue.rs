@@ -4,11 +4,11 @@
 //! Sources (each catalogue row names its own in its `source` column):
 //!
 //! * [OB-UK] ArcelorMittal / SCI "Orange Book", Eurocode 3 UK National Annex,
-//!   IPE and HE tables (3 significant figures), as transcribed in the public
+//!   IPE and HE tables (3 significant figures), as copied in the public
 //!   repository waynemaranga/steelsnakes, src/steelsnakes/EU/data/IPE.json and
-//!   HE.json (commit 38bc16a3) — the same transcription tests/section_tables.rs
+//!   HE.json (commit 38bc16a3) — the same copy tests/section_tables.rs
 //!   uses.
-//! * [AISC] AISC Shapes Database, W table, as transcribed in
+//! * [AISC] AISC Shapes Database, W table, as copied in
 //!   waynemaranga/steelsnakes, src/steelsnakes/US/data/W.json (commit 2ddcf163).
 //!
 //! Tolerances: every published value carries its own rounding, half a unit in

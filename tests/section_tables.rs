@@ -5,15 +5,15 @@
 //! * [OB-UK] ArcelorMittal / SCI "Orange Book", Eurocode 3 UK National Annex,
 //!   "Parallel flange I sections – IPE / Wide flange beams – HE, Dimensions and
 //!   properties" (3 significant figures; Iw in dm⁶, It in cm⁴). Read as
-//!   transcribed in the public repository waynemaranga/steelsnakes,
+//!   copied in the public repository waynemaranga/steelsnakes,
 //!   src/steelsnakes/EU/data/IPE.json and HE.json.
 //! * [BB] SCI P363 "Blue Book", Universal Beams, dimensions and properties
-//!   (3 significant figures). Read as transcribed in waynemaranga/steelsnakes,
+//!   (3 significant figures). Read as copied in waynemaranga/steelsnakes,
 //!   src/steelsnakes/UK/data/UB.json.
 //! * [BS4] Corus, "Universal Beams: Dimensions and Properties, to BS 4: Part 1:
 //!   1993" (section table, read at paperzz.com/doc/9470657; 4 figures).
 //! * [AM] ArcelorMittal section data with 4 significant figures (A, Iy, Iz, It;
-//!   no Iw), read as transcribed in xcfem/xc,
+//!   no Iw), read as copied in xcfem/xc,
 //!   python_modules/materials/sections/structural_shapes/aux/
 //!   arcelor_ipe_profiles.json and arcelor_he_profiles.json (the folder's
 //!   readme cites the ArcelorMittal Orange Book). Its It comes from a different

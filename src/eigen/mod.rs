@@ -273,7 +273,7 @@ fn lanczos(
         let a = dot(qj, &kr);
         alpha.push(a);
         // Full re-orthogonalisation in the K inner product, one pass: the
-        // run is short and only seeds the inverse iteration, whose result
+        // run is short and only starts the inverse iteration, whose result
         // the inertia count checks.
         for i in 0..qs.len() {
             let c = dot(&ps[i], &r);

@@ -14,7 +14,7 @@
 //!
 //! # References
 //! - Moré, "The Levenberg–Marquardt algorithm: implementation and theory",
-//!   in *Numerical Analysis*, Lecture Notes in Mathematics 630, Springer
+//!   in *Numerical Analysis* (ed. G. A. Watson), Springer LNM 630
 //!   1978, 105–116 (the algorithm of the crate).
 
 use super::{Coef, FitError, Sample, mu0, typst_num};

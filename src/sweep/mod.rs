@@ -720,12 +720,21 @@ pub fn safe_name(t: &str) -> String {
 
 /// The combinations of a family's axes other than κ and ζ, in grid order.
 pub fn combinations(f: &Family) -> Vec<Combination> {
-    let ka = f.axes.iter().position(|a| matches!(a, Axis::Kappa(_)));
-    let za = f.axes.iter().position(|a| matches!(a, Axis::Zeta(_)));
-    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
-    let others: Vec<usize> = (0..f.axes.len())
-        .filter(|&a| Some(a) != ka && Some(a) != za)
+    let skip: Vec<usize> = f
+        .axes
+        .iter()
+        .enumerate()
+        .filter(|(_, a)| matches!(a, Axis::Kappa(_) | Axis::Zeta(_)))
+        .map(|(i, _)| i)
         .collect();
+    combinations_without(f, &skip)
+}
+
+/// The combinations of a family's axes other than those in `skip`, in grid
+/// order, named like [`combinations`].
+fn combinations_without(f: &Family, skip: &[usize]) -> Vec<Combination> {
+    let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
+    let others: Vec<usize> = (0..f.axes.len()).filter(|a| !skip.contains(a)).collect();
     let count: usize = others.iter().map(|&a| lens[a]).product();
     (0..count)
         .map(|c| {
@@ -807,36 +816,11 @@ fn wide_tables(
 ) -> Vec<(String, Vec<u8>)> {
     let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
     let index = |idx: &[usize]| idx.iter().zip(&lens).fold(0, |acc, (i, n)| acc * n + i);
-    let others: Vec<usize> = (0..f.axes.len())
-        .filter(|&a| a != w.row && Some(a) != w.col)
-        .collect();
-    let count: usize = others.iter().map(|&a| lens[a]).product();
+    let skip: Vec<usize> = std::iter::once(w.row).chain(w.col).collect();
     let mut out = Vec::new();
-    for c in 0..count {
-        let mut idx = vec![0; f.axes.len()];
-        let mut r = c;
-        for &a in others.iter().rev() {
-            idx[a] = r % lens[a];
-            r /= lens[a];
-        }
-        let labels: Vec<(String, String)> = others
-            .iter()
-            .map(|&a| {
-                (
-                    f.axes[a].column().to_string(),
-                    axis_label(&f.axes[a], idx[a], f),
-                )
-            })
-            .collect();
-        let name = if labels.is_empty() {
-            "all".to_string()
-        } else {
-            labels
-                .iter()
-                .map(|(_, v)| safe_name(v))
-                .collect::<Vec<_>>()
-                .join("_")
-        };
+    for combo in combinations_without(f, &skip) {
+        let mut idx = combo.index.clone();
+        let (labels, name) = (&combo.labels, &combo.name);
         let mut b: Vec<u8> = Vec::new();
         let _ = writeln!(b, "# {}", crate::CAUTION);
         let _ = writeln!(
