@@ -600,11 +600,7 @@ pub fn point_values(f: &Family, p: &Point) -> Vec<String> {
 }
 
 /// Write one row.
-pub fn write_row(
-    w: &mut csv::Writer<&mut dyn Write>,
-    f: &Family,
-    r: &Row,
-) -> Result<(), csv::Error> {
+pub fn write_row<W: Write>(w: &mut csv::Writer<W>, f: &Family, r: &Row) -> Result<(), csv::Error> {
     let p = &r.point;
     let mut rec = point_values(f, p);
     for c in &header(f)[rec.len()..] {

@@ -215,46 +215,70 @@ pub fn run(
         {
             let mut buf = std::io::BufWriter::new(tmp.as_file_mut());
             preamble(&mut buf, f, spec_hash, settings.tolerance).map_err(io(&target))?;
-            let mut w = csv::WriterBuilder::new().from_writer(&mut buf as &mut dyn Write);
+            let mut w = csv::WriterBuilder::new().from_writer(&mut buf);
             let csv_err = |e: csv::Error| SweepError::Io {
                 path: target.clone(),
                 source: std::io::Error::other(e),
             };
             w.write_record(header(f)).map_err(csv_err)?;
-            let mut start = range.start;
-            while start < range.end {
-                let end = (start + CHUNK).min(range.end);
-                let shared: &Cache = cache;
-                let solved: Vec<(Row, Option<[u8; 32]>)> = pool.install(|| {
-                    (start..end)
-                        .into_par_iter()
-                        .map(|i| {
-                            let p = f.point(i);
-                            let k = point_key(&p, settings);
-                            let out = match shared.get(&k) {
-                                Some(e) => (e.row(p), None),
-                                None => (solve_point(p, settings), Some(k)),
-                            };
-                            progress(1);
-                            out
-                        })
-                        .collect()
-                });
-                let fresh: Vec<([u8; 32], Entry)> = solved
-                    .iter()
-                    .filter_map(|(r, k)| k.map(|k| (k, Entry::of(r))))
-                    .collect();
-                hits += solved.len() - fresh.len();
-                cache.append(&fresh).map_err(io(out))?;
-                for (r, _) in &solved {
-                    if r.status != "ok" {
-                        failed += 1;
+            // Solving overlaps writing: a writer thread takes each solved
+            // chunk, in order, while the pool solves the next one; output and
+            // cache are the same as a sequential run.
+            let (tx, rx) = std::sync::mpsc::sync_channel::<Vec<Row>>(1);
+            let (solved_ok, written) = std::thread::scope(|sc| {
+                let writer = sc.spawn(|| -> Result<(), csv::Error> {
+                    for chunk in rx {
+                        for r in &chunk {
+                            if r.status != "ok" {
+                                failed += 1;
+                            }
+                            cells.push(Cell::from(r));
+                            write_row(&mut w, f, r)?;
+                        }
                     }
-                    cells.push(Cell::from(r));
-                    write_row(&mut w, f, r).map_err(csv_err)?;
+                    Ok(())
+                });
+                let mut start = range.start;
+                let mut solved_ok: Result<(), SweepError> = Ok(());
+                while start < range.end {
+                    let end = (start + CHUNK).min(range.end);
+                    let shared: &Cache = cache;
+                    let solved: Vec<(Row, Option<[u8; 32]>)> = pool.install(|| {
+                        (start..end)
+                            .into_par_iter()
+                            .map(|i| {
+                                let p = f.point(i);
+                                let k = point_key(&p, settings);
+                                let out = match shared.get(&k) {
+                                    Some(e) => (e.row(p), None),
+                                    None => (solve_point(p, settings), Some(k)),
+                                };
+                                progress(1);
+                                out
+                            })
+                            .collect()
+                    });
+                    let fresh: Vec<([u8; 32], Entry)> = solved
+                        .iter()
+                        .filter_map(|(r, k)| k.map(|k| (k, Entry::of(r))))
+                        .collect();
+                    hits += solved.len() - fresh.len();
+                    if let Err(e) = cache.append(&fresh) {
+                        solved_ok = Err(io(out)(e));
+                        break;
+                    }
+                    if tx.send(solved.into_iter().map(|(r, _)| r).collect()).is_err() {
+                        // The writer stopped on an error: it is reported below.
+                        break;
+                    }
+                    start = end;
                 }
-                start = end;
-            }
+                drop(tx);
+                let written = writer.join().expect("the writer thread does not panic");
+                (solved_ok, written)
+            });
+            solved_ok?;
+            written.map_err(csv_err)?;
             w.flush().map_err(io(&target))?;
             drop(w);
             buf.flush().map_err(io(&target))?;
