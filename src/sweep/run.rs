@@ -267,7 +267,10 @@ pub fn run(
                         solved_ok = Err(io(out)(e));
                         break;
                     }
-                    if tx.send(solved.into_iter().map(|(r, _)| r).collect()).is_err() {
+                    if tx
+                        .send(solved.into_iter().map(|(r, _)| r).collect())
+                        .is_err()
+                    {
                         // The writer stopped on an error: it is reported below.
                         break;
                     }
