@@ -32,3 +32,11 @@ pub mod sweep;
 pub const CAUTION: &str = "Design aid only: elastic critical values for a rigid cross-section with the \
 restraints stated, not a design resistance. Check against the governing code; a qualified engineer is \
 responsible for its application; local codes and licensed practice prevail.";
+
+/// The caution printed with every design resistance (resistance tables,
+/// charts and the `[design]` block of `solve`), where the elastic caution's
+/// "not a design resistance" would contradict the output.
+pub const DESIGN_CAUTION: &str = "Design aid only: design resistances computed from the engine's elastic \
+critical moments (rigid cross-section, restraints as stated) with the code, edition and nationally determined \
+values stated. Check against the governing code and its national annex; a qualified engineer is responsible \
+for its application; local codes and licensed practice prevail.";

@@ -134,9 +134,10 @@ fn resistance_page(inp: &Inputs<'_>) -> String {
     let _ = writeln!(
         s,
         "#{}",
-        lit(
-            "Design resistance moments Mb,Rd against member length for the sections, grades, load cases and load heights of the spec's [design] table, from the engine's Mcr (never from a formula). Each table states its code, edition, partial factor, curve and grade; check them against the governing code and your national annex."
-        )
+        lit(&format!(
+            "Design resistance moments Mb,Rd against member length for the sections, grades, load cases and load heights of the spec's [design] table, from the engine's Mcr (never from a formula). Each table states its code, edition, partial factor, curve and grade. The footer's \"not a design resistance\" refers to the critical-moment pages; for these pages: {}",
+            crate::DESIGN_CAUTION
+        ))
     );
     let charts: Vec<ChartRef> = match &inp.charts {
         Some(idx) => idx
@@ -166,7 +167,7 @@ fn resistance_page(inp: &Inputs<'_>) -> String {
         let notes: Vec<&str> = text
             .lines()
             .filter_map(|l| l.strip_prefix("# "))
-            .filter(|l| !l.starts_with("CAUTION") && !l.starts_with("Design aid only"))
+            .filter(|l| !l.starts_with("CAUTION"))
             .collect();
         let _ = writeln!(s, "#text(7.5pt)[#{}]", lit(&notes.join(" · ")));
         let body: Vec<&str> = text.lines().filter(|l| !l.starts_with('#')).collect();

@@ -1140,14 +1140,13 @@ fn resistance_charts(
             length: "m".into(),
             resistance: "kN·m".into(),
         };
-        let chart = crate::chart::xy::resistance_chart(
-            &title,
-            &subtitle,
-            series,
-            &units,
-            notes,
-            settings.caution,
-        );
+        // A design resistance carries the design caution, not the elastic one.
+        let mut notes = notes;
+        if settings.caution {
+            notes.push(crate::DESIGN_CAUTION.to_string());
+        }
+        let chart =
+            crate::chart::xy::resistance_chart(&title, &subtitle, series, &units, notes, false);
         let svg = crate::chart::xy::render(&chart).map_err(|e| anyhow!("{}: {e}", p.display()))?;
         let file = format!("{stem}.resistance.svg");
         index.push(Entry {

@@ -7,7 +7,7 @@
 //! down), every file with the caution and its assumptions.
 
 use super::{LoadedSpec, Options, progress_bar, solve_points, write_atomic};
-use crate::CAUTION;
+use crate::DESIGN_CAUTION;
 use crate::case::schema::Tab;
 use crate::case::span::Source;
 use crate::case::units::{HEIGHT_NAMES, parse_length, unit_list};
@@ -595,7 +595,7 @@ fn write_tables(
         "# ltb-atlas resistance table \"{}\": design buckling resistance moment against member length",
         rq.name
     )?;
-    writeln!(pre, "# CAUTION: {CAUTION}")?;
+    writeln!(pre, "# CAUTION: {DESIGN_CAUTION}")?;
     writeln!(
         pre,
         "# Mcr from the finite-element engine for each load case, section, length and load height (never from a formula); {CAVEATS}"
@@ -904,7 +904,7 @@ pub fn solve_design(
         }
     }
     det.insert("assumptions".into(), serde_json::json!(a));
-    det.insert("caution".into(), serde_json::json!(CAUTION));
+    det.insert("caution".into(), serde_json::json!(DESIGN_CAUTION));
     j.insert("design".into(), serde_json::Value::Object(det));
     let mut lines = vec![
         String::new(),
@@ -943,6 +943,6 @@ pub fn solve_design(
     for x in a {
         lines.push(format!("  {x}"));
     }
-    lines.push(format!("CAUTION: {CAUTION}"));
+    lines.push(format!("CAUTION: {DESIGN_CAUTION}"));
     Ok(Some((j, lines)))
 }
