@@ -116,15 +116,15 @@ impl Default for Options {
 /// closed form π√(1+κ²)); a gain of 1 keeps a margin of five.
 pub const ROUND_OFF_GAIN: f64 = 1.0;
 
+/// Relative round-off level of a Rayleigh quotient for mode `x`, given
+/// q = xᵀ·K·x: ROUND_OFF_GAIN·ε·Σ Kᵢᵢ·xᵢ² / q.
+fn round_off_with(k: &BandMatrix, x: &[f64], q: f64) -> f64 {
+    ROUND_OFF_GAIN * f64::EPSILON * (k.diag_quad(x) / q).abs()
+}
+
 /// Relative round-off level of a Rayleigh quotient for mode `x`.
 fn round_off(k: &BandMatrix, x: &[f64], w: &mut [f64]) -> f64 {
-    let q = k.quad(x, w);
-    let d: f64 = x
-        .iter()
-        .enumerate()
-        .map(|(i, xi)| k.get(i, i) * xi * xi)
-        .sum();
-    ROUND_OFF_GAIN * f64::EPSILON * (d / q).abs()
+    round_off_with(k, x, k.quad(x, w))
 }
 
 /// Relative pivot below which K counts as singular (a mechanism): round-off
@@ -132,20 +132,26 @@ fn round_off(k: &BandMatrix, x: &[f64], w: &mut [f64]) -> f64 {
 /// 1e-13 of the member's own stiffness are seen.
 pub const MECHANISM_PIVOT: f64 = 1e-13;
 
-/// Reusable workspace: the factor matrix and vectors.
-struct Work {
+/// Reusable workspace of the search: the factor matrix and vectors. One
+/// workspace serves every mesh level of a solve (storage grows to the
+/// largest system and is reused), so a solve allocates once.
+#[derive(Debug, Clone, Default)]
+pub struct Workspace {
     c: BandMatrix,
     t1: Vec<f64>,
     t2: Vec<f64>,
 }
 
-impl Work {
-    fn new(k: &BandMatrix) -> Work {
-        Work {
-            c: k.clone(),
-            t1: vec![0.0; k.n()],
-            t2: vec![0.0; k.n()],
-        }
+impl Workspace {
+    /// An empty workspace.
+    pub fn new() -> Workspace {
+        Workspace::default()
+    }
+    /// Shape the storage for systems like `k`.
+    fn fit(&mut self, k: &BandMatrix) {
+        self.c.reshape_like(k);
+        self.t1.resize(k.n(), 0.0);
+        self.t2.resize(k.n(), 0.0);
     }
     /// Factor K + s·G; retry at a slightly moved shift if a pivot vanishes.
     fn factor_at(&mut self, k: &BandMatrix, g: &BandMatrix, s: f64) -> (f64, usize) {
@@ -202,7 +208,9 @@ fn tridiag_max(alpha: &[f64], beta: &[f64]) -> (f64, Vec<f64>) {
     };
     let span = (hi - lo).max(f64::MIN_POSITIVE);
     let (mut a, mut b) = (lo - 1e-12 * span, hi + 1e-12 * span);
-    for _ in 0..200 {
+    // To 1e-12 of the span (about 40 halvings): θ only starts an inverse
+    // iteration, whose shift is moved by η anyway.
+    while b - a > 1e-12 * span {
         let mid = 0.5 * (a + b);
         if mid <= a || mid >= b {
             break;
@@ -248,38 +256,37 @@ fn lanczos(
 ) -> Option<(f64, Vec<f64>)> {
     let n = k.n();
     let m = steps.min(n);
-    let mut w = vec![0.0; n];
+    // Lanczos vectors q_j and K·q_j, stored flat (row j at j·n).
+    let mut qs: Vec<f64> = Vec::with_capacity((m + 1) * n);
+    let mut ps: Vec<f64> = Vec::with_capacity((m + 1) * n);
     // Deterministic start vector with components in every mode.
-    let mut q: Vec<f64> = (0..n)
-        .map(|i| 1.0 + 0.5 * ((i as f64) * 1.618_033_988_75 + 0.3).sin())
-        .collect();
-    let kq0 = k.quad(&q, &mut w).sqrt();
-    q.iter_mut().for_each(|v| *v /= kq0);
-    let mut p = vec![0.0; n];
-    k.mul_vec(&q, &mut p);
-    let mut qs: Vec<Vec<f64>> = vec![q];
-    let mut ps: Vec<Vec<f64>> = vec![p];
+    qs.extend((0..n).map(|i| 1.0 + 0.5 * ((i as f64) * 1.618_033_988_75 + 0.3).sin()));
+    ps.resize(n, 0.0);
+    k.mul_vec(&qs[..n], &mut ps[..n]);
+    let kq0 = 1.0 / dot(&qs[..n], &ps[..n]).sqrt();
+    qs.iter_mut().for_each(|v| *v *= kq0);
+    ps.iter_mut().for_each(|v| *v *= kq0);
     let mut alpha = Vec::with_capacity(m);
     let mut beta: Vec<f64> = Vec::with_capacity(m);
     let mut last = (f64::NAN, Vec::new());
+    let mut r = vec![0.0; n];
+    let mut kr = vec![0.0; n];
     for j in 0..m {
         // r = K⁻¹(−G q_j), K r = −G q_j
-        let qj = &qs[j];
-        let mut kr = vec![0.0; n];
-        g.mul_vec(qj, &mut kr);
+        g.mul_vec(&qs[j * n..(j + 1) * n], &mut kr);
         kr.iter_mut().for_each(|v| *v = -*v);
-        let mut r = kr.clone();
+        r.copy_from_slice(&kr);
         kf.solve_in_place(&mut r);
-        let a = dot(qj, &kr);
+        let a = dot(&qs[j * n..(j + 1) * n], &kr);
         alpha.push(a);
         // Full re-orthogonalisation in the K inner product, one pass: the
         // run is short and only starts the inverse iteration, whose result
         // the inertia count checks.
-        for i in 0..qs.len() {
-            let c = dot(&ps[i], &r);
+        for (qi, pi) in qs.chunks_exact(n).zip(ps.chunks_exact(n)) {
+            let c = dot(pi, &r);
             for t in 0..n {
-                r[t] -= c * qs[i][t];
-                kr[t] -= c * ps[i][t];
+                r[t] -= c * qi[t];
+                kr[t] -= c * pi[t];
             }
         }
         let b = dot(&r, &kr).max(0.0).sqrt();
@@ -296,17 +303,15 @@ fn lanczos(
         }
         beta.push(b);
         let ib = 1.0 / b;
-        r.iter_mut().for_each(|v| *v *= ib);
-        kr.iter_mut().for_each(|v| *v *= ib);
-        qs.push(r);
-        ps.push(kr);
+        qs.extend(r.iter().map(|v| v * ib));
+        ps.extend(kr.iter().map(|v| v * ib));
     }
     let (theta, s) = last;
     if !(theta > 0.0) {
         return None;
     }
     let mut x = vec![0.0; n];
-    for (c, qv) in s.iter().zip(&qs) {
+    for (c, qv) in s.iter().zip(qs.chunks_exact(n)) {
         for t in 0..n {
             x[t] += c * qv[t];
         }
@@ -314,45 +319,62 @@ fn lanczos(
     Some((1.0 / theta, x))
 }
 
-/// Inverse iteration at a fixed shift from `x`; returns (λ, x) after the
-/// Rayleigh quotient settles. The work matrix must hold the factor of
-/// K + σ·G.
+/// Inverse iteration at a fixed shift σ from `x`; returns (λ, xᵀ·K·x)
+/// once the Rayleigh quotient settles. The workspace must hold the factor
+/// of K + σ·G.
+///
+/// Each step solves (K + σ·G)·y = G·x and needs only G·y: since
+/// K·y = G·x − σ·G·y exactly (up to the solve's round-off),
+///
+/// ```text
+/// yᵀ·K·y = yᵀ·(G·x) − σ·yᵀ·(G·y),   λ = −yᵀKy / yᵀGy = σ − yᵀ(G·x) / yᵀ(G·y)
+/// ```
+///
+/// (the Ritz value of shift-and-invert, Parlett 1998 §4.6), and G·y is the
+/// next step's right-hand side. One band solve and one band product per step.
 fn inverse_iteration(
-    k: &BandMatrix,
     g: &BandMatrix,
-    wk: &mut Work,
+    wk: &mut Workspace,
+    sigma: f64,
     x: &mut Vec<f64>,
     iters: usize,
-) -> Option<f64> {
-    // t1 holds G·x throughout; t2 is scratch for K·x.
+) -> Option<(f64, f64)> {
+    // t1 holds G·x throughout; x receives y.
     let mut lam_old = f64::NAN;
-    let mut lam = None;
+    let mut out = None;
     g.mul_vec(x, &mut wk.t1);
     for _ in 0..iters {
-        // x ← (K + σG)⁻¹ G x, scaled to unit max norm
-        wk.c.solve_in_place(&mut wk.t1);
-        std::mem::swap(x, &mut wk.t1);
+        // y = (K + σG)⁻¹ G x
+        x.copy_from_slice(&wk.t1);
+        wk.c.solve_in_place(x);
         let nrm = x.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
         if !(nrm > 0.0) || !nrm.is_finite() {
             return None;
         }
+        let a = dot(x, &wk.t1);
+        g.mul_vec(x, &mut wk.t1);
+        let b = dot(x, &wk.t1);
+        // scale y (and G·y with it) to a unit max norm
         let inv = 1.0 / nrm;
         x.iter_mut().for_each(|v| *v *= inv);
-        // Rayleigh quotient −xᵀKx / xᵀGx
-        g.mul_vec(x, &mut wk.t1);
-        k.mul_vec(x, &mut wk.t2);
-        let gg = dot(x, &wk.t1);
-        let kk = dot(x, &wk.t2);
-        let l = if gg < 0.0 { Some(-kk / gg) } else { None };
-        if let Some(l) = l {
+        wk.t1.iter_mut().for_each(|v| *v *= inv);
+        // the Rayleigh quotient needs yᵀGy < 0 (a positive factor)
+        let step = if b < 0.0 {
+            let l = sigma - a / b;
+            let q = (a - sigma * b) * inv * inv;
+            Some((l, q))
+        } else {
+            None
+        };
+        if let Some((l, _)) = step {
             if (l - lam_old).abs() <= 1e-11 * l.abs() {
-                return Some(l);
+                return step;
             }
             lam_old = l;
         }
-        lam = l;
+        out = step;
     }
-    lam
+    out
 }
 
 /// Find the lowest positive critical factor of (K + λ·G)·x = 0.
@@ -365,34 +387,40 @@ pub fn lowest_positive(
     start: Option<(f64, Vec<f64>)>,
     opt: &Options,
 ) -> Result<Outcome, EigenError> {
+    lowest_positive_in(&mut Workspace::new(), k, g, start, opt)
+}
+
+/// [`lowest_positive`] in a caller's workspace (reused across the mesh
+/// levels of one solve; results do not depend on what it held before).
+pub fn lowest_positive_in(
+    wk: &mut Workspace,
+    k: &BandMatrix,
+    g: &BandMatrix,
+    start: Option<(f64, Vec<f64>)>,
+    opt: &Options,
+) -> Result<Outcome, EigenError> {
     let n = k.n();
-    let mut wk = Work::new(k);
+    wk.fit(k);
     let mut inertia = Vec::new();
     // K must be positive definite (and is factorised for the Lanczos run).
     let given = match start {
         Some((l, x)) if l.is_finite() && l > 0.0 && x.len() == n => Some((l, x)),
         _ => None,
     };
-    let mut kf = None;
     if opt.check_k || given.is_none() {
-        let mut f = k.clone();
+        wk.c.set_combination(k, 0.0, g);
         // Only a pivot at round-off level is a mechanism: a soft spring, however
         // soft, keeps K positive definite.
-        match f.factorize(MECHANISM_PIVOT) {
+        match wk.c.factorize(MECHANISM_PIVOT) {
             Ok(0) => {}
             Ok(_) => return Err(EigenError::Mechanism { row: 0 }),
             Err(BandError::ZeroPivot { row }) => return Err(EigenError::Mechanism { row }),
         }
-        kf = Some(f);
     }
     let est = match given {
         Some(e) => Some(e),
-        None => lanczos(
-            k,
-            kf.as_ref().expect("factorised above"),
-            g,
-            opt.lanczos_steps,
-        ),
+        // wk.c holds the factor of K here
+        None => lanczos(k, &wk.c, g, opt.lanczos_steps),
     };
     let (mut sigma, mut x) = match est {
         Some((l, x)) if l < opt.limit => (l, x),
@@ -410,7 +438,7 @@ pub fn lowest_positive(
                 });
             }
             // The estimate missed one: find it by slicing.
-            let s = slice_lowest(k, g, &mut wk, s, &mut inertia)?;
+            let s = slice_lowest(k, g, wk, s, &mut inertia)?;
             (
                 s,
                 (0..n)
@@ -427,11 +455,11 @@ pub fn lowest_positive(
             shift: s,
             negative: neg,
         });
-        let lam = inverse_iteration(k, g, &mut wk, &mut x, 12).ok_or(EigenError::NotConverged)?;
+        let (lam, xkx) = inverse_iteration(g, wk, s, &mut x, 12).ok_or(EigenError::NotConverged)?;
         if !(lam > 0.0) {
             return Err(EigenError::NotConverged);
         }
-        let ro = round_off(k, &x, &mut wk.t2);
+        let ro = round_off_with(k, &x, xkx);
         if !opt.prove && lam < opt.limit {
             return Ok(Outcome::Critical {
                 lambda: lam,
@@ -453,7 +481,7 @@ pub fn lowest_positive(
                     inertia,
                 });
             }
-            sigma = slice_lowest(k, g, &mut wk, s, &mut inertia)?;
+            sigma = slice_lowest(k, g, wk, s, &mut inertia)?;
             continue;
         }
         let (s_lo, n_lo) = wk.factor_at(k, g, lam * (1.0 - eps));
@@ -476,7 +504,7 @@ pub fn lowest_positive(
         }
         if n_lo > 0 {
             // A lower factor exists: slice down to it.
-            sigma = slice_lowest(k, g, &mut wk, s_lo, &mut inertia)?;
+            sigma = slice_lowest(k, g, wk, s_lo, &mut inertia)?;
         } else {
             // Converged to something that is not a factor near lam: restart
             // from a fresh Lanczos vector at the Rayleigh value.
@@ -504,8 +532,25 @@ pub fn prove(
     known: &[Inertia],
     opt: &Options,
 ) -> Option<Vec<Inertia>> {
-    let mut wk = Work::new(k);
-    let eps = opt.proof.max(round_off(k, x, &mut wk.t2));
+    let mut wk = Workspace::new();
+    wk.fit(k);
+    let ro = round_off(k, x, &mut wk.t2);
+    prove_in(&mut wk, k, g, lambda, ro, known, opt)
+}
+
+/// [`prove`] in a caller's workspace, with the round-off level `round_off`
+/// of λ already known (from [`Outcome::Critical`]).
+pub fn prove_in(
+    wk: &mut Workspace,
+    k: &BandMatrix,
+    g: &BandMatrix,
+    lambda: f64,
+    round_off: f64,
+    known: &[Inertia],
+    opt: &Options,
+) -> Option<Vec<Inertia>> {
+    wk.fit(k);
+    let eps = opt.proof.max(round_off);
     let (s_lo, n_lo) = wk.factor_at(k, g, lambda * (1.0 - eps));
     if n_lo != 0 {
         return None;
@@ -539,7 +584,7 @@ pub fn prove(
 fn slice_lowest(
     k: &BandMatrix,
     g: &BandMatrix,
-    wk: &mut Work,
+    wk: &mut Workspace,
     hi: f64,
     inertia: &mut Vec<Inertia>,
 ) -> Result<f64, EigenError> {

@@ -403,6 +403,13 @@ fn scatter_element(
     d1: &NodeDofs,
     d2: &NodeDofs,
 ) {
+    // Fastest path: two nodes with warping continuity only, whose eight
+    // reduced DOFs are the element's local DOFs in order.
+    if d1.t == TIED && d2.t == TIED && d2.offset == d1.offset + 4 && k.bandwidth() >= 7 {
+        k.add_block8(d1.offset, ke);
+        g.add_block8(d1.offset, ge);
+        return;
+    }
     // Fast path: every full DOF of both nodes is held or equals one reduced
     // DOF (coefficient 1), so each local DOF has at most one global index.
     if let (Some(s1), Some(s2)) = (d1.sel, d2.sel) {

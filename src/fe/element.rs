@@ -153,53 +153,134 @@ pub fn stiffness(e: &ElementData) -> Mat8 {
     k
 }
 
-/// Geometric (load-proportional) matrix Kg, by 4-point Gauss (exact).
+/// Shape-function products at the Gauss points of the unit element, times
+/// the Gauss weights: the element-independent part of [`geometric`].
+///
+/// With sc = [1, h, 1, h] (the h carried by the slope DOFs) the Hermite
+/// functions of an element of length h at ξ are N = N₀(ξ)·sc,
+/// N' = N₀'(ξ)·sc/h and N'' = N₀''(ξ)·sc/h², so every integrand below is a
+/// unit-element product scaled by sc_i·sc_j and a power of h.
+struct GaussTables {
+    /// w_q · N₀''_i(ξ_q) · N₀_j(ξ_q)   (the −∫M·v''·φ coupling)
+    dd_n: [[[f64; 4]; 4]; 4],
+    /// w_q · N₀'_i(ξ_q) · N₀'_j(ξ_q)
+    d_d: [[[f64; 4]; 4]; 4],
+    /// w_q · N₀_i(ξ_q) · N₀_j(ξ_q)
+    n_n: [[[f64; 4]; 4]; 4],
+}
+
+const fn unit_hermite(xi: f64) -> ([f64; 4], [f64; 4], [f64; 4]) {
+    let x2 = xi * xi;
+    let x3 = x2 * xi;
+    (
+        [
+            1.0 - 3.0 * x2 + 2.0 * x3,
+            xi - 2.0 * x2 + x3,
+            3.0 * x2 - 2.0 * x3,
+            x3 - x2,
+        ],
+        [
+            -6.0 * xi + 6.0 * x2,
+            1.0 - 4.0 * xi + 3.0 * x2,
+            6.0 * xi - 6.0 * x2,
+            3.0 * x2 - 2.0 * xi,
+        ],
+        [
+            -6.0 + 12.0 * xi,
+            -4.0 + 6.0 * xi,
+            6.0 - 12.0 * xi,
+            6.0 * xi - 2.0,
+        ],
+    )
+}
+
+const fn gauss_tables() -> GaussTables {
+    let mut t = GaussTables {
+        dd_n: [[[0.0; 4]; 4]; 4],
+        d_d: [[[0.0; 4]; 4]; 4],
+        n_n: [[[0.0; 4]; 4]; 4],
+    };
+    let mut q = 0;
+    while q < 4 {
+        let (xi, w) = GAUSS4[q];
+        let (n, d, dd) = unit_hermite(xi);
+        let mut i = 0;
+        while i < 4 {
+            let mut j = 0;
+            while j < 4 {
+                t.dd_n[q][i][j] = w * dd[i] * n[j];
+                t.d_d[q][i][j] = w * d[i] * d[j];
+                t.n_n[q][i][j] = w * n[i] * n[j];
+                j += 1;
+            }
+            i += 1;
+        }
+        q += 1;
+    }
+    t
+}
+
+const TABLES: GaussTables = gauss_tables();
+
+/// Geometric (load-proportional) matrix Kg, by 4-point Gauss (exact),
+/// from the unit-element tables:
+///
+/// ```text
+/// K_vφ[i][j] = −(sc_i·sc_j/h) · Σ_q M(ξ_q·h) · w_q·N₀''_i·N₀_j
+/// K_φφ[i][j] =  sc_i·sc_j · [ (1/h)·Σ_q c_q·w_q·N₀'_i·N₀'_j + h·Σ_q (fz·a)_q·w_q·N₀_i·N₀_j ]
+///   c_q = −M(ξ_q·h)·βy − N·(z_c² + ρ²)
+/// K_vv[i][j] = −N·(sc_i·sc_j/h)·Σ_q w_q·N₀'_i·N₀'_j,   K_vφ += N·z_c·(same sum)
+/// ```
 pub fn geometric(e: &ElementData) -> Mat8 {
     let h = e.h;
+    let ih = 1.0 / h;
+    let sc = [1.0, h, 1.0, h];
     let [n_ax, zc, rho2] = e.axial;
-    // 4×4 blocks: vφ (cross), φφ and vv; symmetric parts filled at the end.
-    let mut vp = [[0.0; 4]; 4];
-    let mut pp = [[0.0; 4]; 4];
-    let mut vv = [[0.0; 4]; 4];
     let wagner = e.beta != 0.0;
     let height = e.qa != [0.0, 0.0];
     let axial = n_ax != 0.0;
-    for &(xi, w) in &GAUSS4 {
+    // moments at the Gauss points
+    let mut mq = [0.0; 4];
+    for (q, &(xi, _)) in GAUSS4.iter().enumerate() {
         let s = xi * h;
-        let m = e.m[0] + s * (e.m[1] + s * (e.m[2] + s * e.m[3]));
-        let (n, d, dd) = hermite(xi, h);
-        let wh = w * h;
-        // − ∫ M v'' φ  → Hessian entries between v and φ DOFs
-        let a = -wh * m;
-        for i in 0..4 {
-            let ai = a * dd[i];
-            for j in 0..4 {
-                vp[i][j] += ai * n[j];
-            }
-        }
-        // − ½∫ M βy φ'², + ½∫ fz a φ², − ½∫ N [(v' − z_c φ')² + ρ² φ'²]
-        let cd = if wagner { -wh * m * e.beta } else { 0.0 }
-            - if axial {
-                wh * n_ax * (zc * zc + rho2)
-            } else {
-                0.0
-            };
-        let cn = if height {
-            wh * (e.qa[0] + xi * (e.qa[1] - e.qa[0]))
-        } else {
-            0.0
-        };
+        mq[q] = e.m[0] + s * (e.m[1] + s * (e.m[2] + s * e.m[3]));
+    }
+    let mut vp = [[0.0; 4]; 4];
+    for q in 0..4 {
+        let t = &TABLES.dd_n[q];
         for i in 0..4 {
             for j in 0..4 {
-                pp[i][j] += cd * d[i] * d[j] + cn * n[i] * n[j];
+                vp[i][j] += mq[q] * t[i][j];
             }
         }
-        if axial {
+    }
+    let mut pp = [[0.0; 4]; 4];
+    let mut dsum = [[0.0; 4]; 4];
+    if wagner || axial {
+        let shift = n_ax * (zc * zc + rho2);
+        for q in 0..4 {
+            let c = -mq[q] * e.beta - shift;
+            let t = &TABLES.d_d[q];
             for i in 0..4 {
                 for j in 0..4 {
-                    let dij = wh * d[i] * d[j];
-                    vv[i][j] -= n_ax * dij;
-                    vp[i][j] += n_ax * zc * dij;
+                    pp[i][j] += c * t[i][j];
+                    dsum[i][j] += t[i][j];
+                }
+            }
+        }
+        for row in pp.iter_mut() {
+            for v in row.iter_mut() {
+                *v *= ih;
+            }
+        }
+    }
+    if height {
+        for (q, &(xi, _)) in GAUSS4.iter().enumerate() {
+            let c = h * (e.qa[0] + xi * (e.qa[1] - e.qa[0]));
+            let t = &TABLES.n_n[q];
+            for i in 0..4 {
+                for j in 0..4 {
+                    pp[i][j] += c * t[i][j];
                 }
             }
         }
@@ -207,10 +288,17 @@ pub fn geometric(e: &ElementData) -> Mat8 {
     let mut g = [[0.0; 8]; 8];
     for i in 0..4 {
         for j in 0..4 {
-            g[VD[i]][PD[j]] = vp[i][j];
-            g[PD[j]][VD[i]] = vp[i][j];
-            g[PD[i]][PD[j]] = pp[i][j];
-            g[VD[i]][VD[j]] = vv[i][j];
+            let s = sc[i] * sc[j];
+            let mut cross = -ih * vp[i][j];
+            if axial {
+                let dd = ih * dsum[i][j];
+                cross += n_ax * zc * dd;
+                g[VD[i]][VD[j]] = -n_ax * dd * s;
+            }
+            let cross = s * cross;
+            g[VD[i]][PD[j]] = cross;
+            g[PD[j]][VD[i]] = cross;
+            g[PD[i]][PD[j]] = s * pp[i][j];
         }
     }
     g

@@ -20,7 +20,7 @@
 //!   (Sturm sequence check in eigenvalue solutions).
 
 /// A symmetric band matrix (lower band stored).
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct BandMatrix {
     n: usize,
     b: usize,
@@ -75,6 +75,23 @@ impl BandMatrix {
     pub fn add_lower(&mut self, i: usize, j: usize, v: f64) {
         let k = self.idx(i, j);
         self.a[k] += v;
+    }
+    /// Add the lower triangle of a symmetric 8×8 block whose local index l
+    /// is global index `o + l` (needs a half-bandwidth of at least 7).
+    #[inline]
+    pub fn add_block8(&mut self, o: usize, m: &[[f64; 8]; 8]) {
+        let b = self.b;
+        let w = b + 1;
+        assert!(b >= 7 && o + 8 <= self.n, "block outside the band");
+        let rows = &mut self.a[o * w..(o + 8) * w];
+        for (i, mi) in m.iter().enumerate() {
+            let row = &mut rows[i * w..(i + 1) * w];
+            // entry (o + i, o + j) sits at j + b − i of its row
+            let base = b - i;
+            for j in 0..=i {
+                row[base + j] += mi[j];
+            }
+        }
     }
     /// Set entry (i, j) of the lower triangle (i ≥ j, within the band).
     pub fn set_lower(&mut self, i: usize, j: usize, v: f64) {
@@ -149,6 +166,23 @@ impl BandMatrix {
         }
     }
 
+    /// Σ Aᵢᵢ·xᵢ² (the diagonal part of xᵀ·A·x).
+    pub fn diag_quad(&self, x: &[f64]) -> f64 {
+        let w = self.b + 1;
+        self.a
+            .chunks_exact(w)
+            .zip(x)
+            .map(|(row, xi)| row[self.b] * xi * xi)
+            .sum()
+    }
+    /// Take the shape of `other` (order and bandwidth), reusing storage;
+    /// entries are left unspecified (overwrite them, e.g. by
+    /// [`BandMatrix::set_combination`]).
+    pub fn reshape_like(&mut self, other: &BandMatrix) {
+        self.n = other.n;
+        self.b = other.b;
+        self.a.resize(other.a.len(), 0.0);
+    }
     /// xᵀ·A·x.
     pub fn quad(&self, x: &[f64], work: &mut [f64]) -> f64 {
         self.mul_vec(x, work);
@@ -244,8 +278,37 @@ impl BandMatrix {
         let n = self.n;
         let w = B + 1;
         let head = B.min(n);
-        let (mut neg, ()) = self.factorize_rows(0, head, rel_tol)?;
+        let mut neg = 0;
         let mut t = [0.0_f64; B];
+        // First rows: columns from c0 = B − i on (entries left of column 0
+        // do not exist).
+        for i in 0..head {
+            let c0 = B - i;
+            let (done, rest) = self.a.split_at_mut(i * w);
+            let row = &mut rest[..w];
+            let scale = row[c0..].iter().fold(0.0_f64, |m, x| m.max(x.abs()));
+            for c in c0..B {
+                let j = i + c - B;
+                let rj = &done[j * w..(j + 1) * w];
+                let mut s = row[c];
+                for c2 in c0..c {
+                    s -= t[c2] * rj[c2 + B - c];
+                }
+                t[c] = s;
+                row[c] = s * rj[B];
+            }
+            let mut d = row[B];
+            for c in c0..B {
+                d -= t[c] * row[c];
+            }
+            if !(d.abs() > rel_tol * scale) {
+                return Err(BandError::ZeroPivot { row: i });
+            }
+            if d < 0.0 {
+                neg += 1;
+            }
+            row[B] = 1.0 / d;
+        }
         for i in head..n {
             let (done, rest) = self.a.split_at_mut(i * w);
             let row = &mut rest[..w];

@@ -54,12 +54,21 @@ fn fixity(field: &str, f: Fixity) -> Result<(), ModelError> {
 }
 
 fn support(prefix: &str, s: &Support) -> Result<(), ModelError> {
-    fixity(&format!("{prefix}.lateral"), s.lateral)?;
-    fixity(&format!("{prefix}.lateral_rotation"), s.lateral_rotation)?;
-    fixity(&format!("{prefix}.twist"), s.twist)?;
-    fixity(&format!("{prefix}.warping"), s.warping)?;
-    fixity(&format!("{prefix}.vertical"), s.vertical)?;
-    fixity(&format!("{prefix}.in_plane_rotation"), s.in_plane_rotation)
+    // Field names are built only for the error (validation runs per solve).
+    let keys = [
+        ("lateral", s.lateral),
+        ("lateral_rotation", s.lateral_rotation),
+        ("twist", s.twist),
+        ("warping", s.warping),
+        ("vertical", s.vertical),
+        ("in_plane_rotation", s.in_plane_rotation),
+    ];
+    for (key, f) in keys {
+        if let Fixity::Spring(_) = f {
+            fixity(&format!("{prefix}.{key}"), f)?;
+        }
+    }
+    Ok(())
 }
 
 impl Member {

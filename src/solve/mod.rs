@@ -227,9 +227,10 @@ pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
         });
     };
     let base = mesh::member_base_nodes(m, &s.mesh);
-    let forward = direction(m, &mf, &base, s, limit, 1.0)?;
+    let mut ws = eigen::Workspace::new();
+    let forward = direction(m, &mf, &base, s, limit, 1.0, &mut ws)?;
     let reversed = if s.reversed {
-        Some(direction(m, &mf, &base, s, limit, -1.0)?)
+        Some(direction(m, &mf, &base, s, limit, -1.0, &mut ws)?)
     } else {
         None
     };
@@ -258,6 +259,7 @@ fn direction(
     s: &Settings,
     limit: f64,
     sign: f64,
+    ws: &mut eigen::Workspace,
 ) -> Result<Direction, SolveError> {
     let mut history: Vec<(usize, f64)> = Vec::new();
     // (factor, relative round-off, system, mode) of the previous level
@@ -301,8 +303,8 @@ fn direction(
             check_k: level == 0,
             ..Default::default()
         };
-        let out =
-            eigen::lowest_positive(&sys.k, &sys.g, start, &opt).map_err(|e| eigen_err(e, &sys))?;
+        let out = eigen::lowest_positive_in(ws, &sys.k, &sys.g, start, &opt)
+            .map_err(|e| eigen_err(e, &sys))?;
         let (lambda, mode, round_off) = match out {
             Outcome::NoBuckling { inertia, .. } => {
                 no_buckling_levels += 1;
@@ -344,7 +346,7 @@ fn direction(
                 ..Default::default()
             };
             if let Some(inertia) =
-                eigen::prove(&sys.k, &sys.g, lambda, &mode, &level_inertia, &popt)
+                eigen::prove_in(ws, &sys.k, &sys.g, lambda, round_off, &level_inertia, &popt)
             {
                 return Ok(finish(
                     est,
@@ -358,7 +360,7 @@ fn direction(
                 ));
             }
             // The counts do not bracket it: search this mesh properly.
-            match eigen::lowest_positive(&sys.k, &sys.g, Some((lambda, mode)), &popt)
+            match eigen::lowest_positive_in(ws, &sys.k, &sys.g, Some((lambda, mode)), &popt)
                 .map_err(|e| eigen_err(e, &sys))?
             {
                 Outcome::NoBuckling { inertia, .. } => {
