@@ -336,7 +336,7 @@ fn inverse_iteration(
     g: &BandMatrix,
     wk: &mut Workspace,
     sigma: f64,
-    x: &mut Vec<f64>,
+    x: &mut [f64],
     iters: usize,
 ) -> Option<(f64, f64)> {
     // t1 holds G·x throughout; x receives y.
