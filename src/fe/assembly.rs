@@ -39,6 +39,9 @@ pub struct NodeDofs {
     /// When every full DOF is either held (None) or equal to one reduced DOF
     /// (coefficient 1), that reduced DOF: the fast path of the scatter.
     pub sel: Option<[Option<u8>; NFULL]>,
+    /// The node carries warping continuity alone (t is the tied basis):
+    /// its four reduced DOFs are [v, v', φ, φ'] in order.
+    pub tied: bool,
 }
 
 fn selection(t: &[[f64; NFULL]; NFULL], r: usize) -> Option<[Option<u8>; NFULL]> {
@@ -339,6 +342,7 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
                 r: 4,
                 t: TIED,
                 sel: tied_sel,
+                tied: true,
             });
             off += 4;
             continue;
@@ -358,6 +362,7 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
             r,
             t,
             sel: selection(&t, r),
+            tied: r == 4 && t == TIED,
         });
         off += r;
     }
@@ -405,7 +410,7 @@ fn scatter_element(
 ) {
     // Fastest path: two nodes with warping continuity only, whose eight
     // reduced DOFs are the element's local DOFs in order.
-    if d1.t == TIED && d2.t == TIED && d2.offset == d1.offset + 4 && k.bandwidth() >= 7 {
+    if d1.tied && d2.tied && d2.offset == d1.offset + 4 && k.bandwidth() == 7 {
         k.add_block8(d1.offset, ke);
         g.add_block8(d1.offset, ge);
         return;

@@ -77,19 +77,18 @@ impl BandMatrix {
         self.a[k] += v;
     }
     /// Add the lower triangle of a symmetric 8×8 block whose local index l
-    /// is global index `o + l` (needs a half-bandwidth of at least 7).
+    /// is global index `o + l` (needs a half-bandwidth of exactly 7, the
+    /// band of four-DOF nodes).
     #[inline]
     pub fn add_block8(&mut self, o: usize, m: &[[f64; 8]; 8]) {
-        let b = self.b;
-        let w = b + 1;
-        assert!(b >= 7 && o + 8 <= self.n, "block outside the band");
-        let rows = &mut self.a[o * w..(o + 8) * w];
+        assert!(self.b == 7 && o + 8 <= self.n, "block outside the band");
+        let rows: &mut [f64; 64] = (&mut self.a[o * 8..(o + 8) * 8])
+            .try_into()
+            .expect("8 rows of 8");
         for (i, mi) in m.iter().enumerate() {
-            let row = &mut rows[i * w..(i + 1) * w];
-            // entry (o + i, o + j) sits at j + b − i of its row
-            let base = b - i;
+            // entry (o + i, o + j) sits at j + 7 − i of its row
             for j in 0..=i {
-                row[base + j] += mi[j];
+                rows[i * 8 + 7 - i + j] += mi[j];
             }
         }
     }
