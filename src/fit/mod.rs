@@ -31,6 +31,7 @@
 pub mod ccurves;
 pub mod expr;
 pub mod poly;
+pub mod rational;
 pub mod surface;
 
 use serde::{Deserialize, Serialize};

@@ -17,6 +17,7 @@
 //! digits = 4                              # significant digits printed (2..=8)
 //! validation = 2                          # validation points per cell and direction
 //! max_degree = 6                          # surface: highest degree in u and in v
+//! basis = "polynomial"                    # surface: "polynomial" (default), "rational" or "auto"
 //! expression = "a*pi*sqrt(1 + kappa^2) + b*zeta"
 //! quantity = "mu_cr"                      # or "mu_ratio" (μcr/μ0)
 //! parameters = { a = 1.0, b = -0.5 }      # start values
@@ -70,6 +71,7 @@ const FIT_KEYS: &[&str] = &[
     "digits",
     "validation",
     "max_degree",
+    "basis",
     "expression",
     "quantity",
     "parameters",
@@ -94,6 +96,8 @@ pub struct FitSpec {
     pub validation: usize,
     /// Highest degree of the surface in u and v.
     pub max_degree: usize,
+    /// Basis family of the surface.
+    pub basis: surface::Basis,
     /// Expression source (expression form).
     pub expression: Option<String>,
     /// What the expression gives.
@@ -114,6 +118,7 @@ impl FitSpec {
             digits: 4,
             validation: 2,
             max_degree: 6,
+            basis: surface::Basis::Polynomial,
             expression: None,
             quantity: Quantity::MuCr,
             parameters: Vec::new(),
@@ -278,6 +283,20 @@ fn fit_table(src: &Source<'_>, t: &Tab<'_>) -> Result<FitSpec, CaseError> {
                 ));
             }
         }
+    }
+    if let Some((b, _)) = t.choice(
+        "basis",
+        &["polynomial", "rational", "auto"],
+        "surface basis",
+    )? {
+        if s.form != Form::Surface {
+            return Err(t.err_at("basis", "`basis` belongs to form = \"surface\" only"));
+        }
+        s.basis = match b {
+            "rational" => surface::Basis::Rational,
+            "auto" => surface::Basis::Auto,
+            _ => surface::Basis::Polynomial,
+        };
     }
     if let Some((q, _)) = t.choice("quantity", &["mu_cr", "mu_ratio"], "quantity")? {
         s.quantity = if q == "mu_cr" {
@@ -558,6 +577,7 @@ fn fit_one(
                 target: spec.target,
                 max_degree: spec.max_degree,
                 folds: 5,
+                basis: spec.basis,
             };
             let s = surface::fit(samples, domain, o).with_context(ctx)?;
             details.insert("degree_u".into(), json!(s.p));
@@ -575,7 +595,31 @@ fn fit_one(
             details.insert("cross_validation_max_rel_error".into(), num(s.cv_max_rel));
             details.insert("cross_validation_folds".into(), json!(o.folds));
             details.insert("target_met".into(), json!(s.target_met));
-            Model::Surface(s.printed(spec.digits))
+            if spec.basis != surface::Basis::Polynomial {
+                details.insert("basis_option".into(), json!(spec.basis.as_str()));
+                details.insert(
+                    "basis_family".into(),
+                    json!(if s.is_rational() {
+                        "rational"
+                    } else {
+                        "polynomial"
+                    }),
+                );
+                details.insert("denominator_terms".into(), json!(s.den_powers.len()));
+            }
+            let m = s.printed(spec.digits);
+            let qmin = m.q_min(domain);
+            if s.is_rational() {
+                if !(qmin > 0.0) {
+                    bail!(
+                        "{}: the rational surface's denominator, with its coefficients printed to {} digits, reaches {qmin} inside the domain; print more digits (`digits`) or use basis = \"polynomial\"",
+                        ctx(),
+                        spec.digits
+                    );
+                }
+                details.insert("denominator_min".into(), num(qmin));
+            }
+            Model::Surface(m)
         }
         Form::CCurves => {
             let c = ccurves::fit(samples, domain, spec.target).with_context(ctx)?;
@@ -1020,6 +1064,9 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 "zeta"
             };
             let formula = match spec.form {
+                Form::Surface if spec.basis != surface::Basis::Polynomial => format!(
+                    "mu_cr/mu0 = P/Q, P = sum of c<i><j>*u^i*v^j, Q = 1 + sum of q<i><j>*u^i*v^j (Q = 1 where no q<i><j> is listed: a polynomial), with mu0 = pi*sqrt(1 + kappa^2), u = (ln(kappa) - u_shift)/u_scale, v = ({z} - v_shift)/v_scale"
+                ),
                 Form::Surface => format!(
                     "mu_cr/mu0 = sum of c<i><j>*u^i*v^j with mu0 = pi*sqrt(1 + kappa^2), u = (ln(kappa) - u_shift)/u_scale, v = ({z} - v_shift)/v_scale"
                 ),
