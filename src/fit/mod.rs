@@ -5,11 +5,12 @@
 //! on analytic surfaces.
 //!
 //! Three forms ([`Model`]):
-//! - `surface`: a tensor-product polynomial correction surface for μcr/μ0
-//!   in u = (ln κ − a)/b and v = (z − c)/d, where z = ζ on a rectangle or
-//!   z = ζ/κ on a band |ζ| ≤ c·κ (ζ written as multiples of κ): [`surface`];
-//! - `c-curves`: C1(κ) and C2(κ) of the three-factor form, smoothed in ln κ:
-//!   [`ccurves`];
+//! - `surface`: a tensor-product polynomial (or rational, P/Q: [`rational`])
+//!   correction surface for μcr/μ0 in u = (ln κ − a)/b and v = (z − c)/d,
+//!   where z = ζ on a rectangle or z = ζ/κ on a band |ζ| ≤ c·κ (ζ written
+//!   as multiples of κ): [`surface`];
+//! - `c-curves`: C1(κ) and C2(κ) of the three-factor form (and C3(κ) across
+//!   a monosymmetry axis δ), smoothed in ln κ: [`ccurves`];
 //! - `expression`: a user-written closed form with named parameters, fitted
 //!   by Levenberg–Marquardt: [`expr`].
 //!
