@@ -72,11 +72,12 @@ fn uniform_moment_gives_c1_one_and_c3_one_sagging_minus_one_hogging() {
         assert!(v["fit"]["c2_degree"].is_null(), "C2 not determined: {v}");
         assert!(v["typst"].as_str().unwrap().contains("C_3"));
         // Per κ: the engine's values carry relative errors of about 1e-4
-        // (its estimate), so C1 and C3 from least squares are held to 2e-3.
+        // (its estimate), so C1 and C3 from least squares are held to 5e-4
+        // (measured: both equal 1 to 4 decimals).
         for p in v["fit"]["per_kappa"].as_array().unwrap() {
             let (c1, c3v) = (p["c1"].as_f64().unwrap(), p["c3"].as_f64().unwrap());
-            assert!((c1 - 1.0).abs() < 2e-3, "{combo}: {p}");
-            assert!((c3v - c3).abs() < 2e-3, "{combo}: {p}");
+            assert!((c1 - 1.0).abs() < 5e-4, "{combo}: {p}");
+            assert!((c3v - c3).abs() < 5e-4, "{combo}: {p}");
             assert!(p["c2"].is_null());
         }
         // The printed formula against the closed form off the grid.
@@ -85,7 +86,7 @@ fn uniform_moment_gives_c1_one_and_c3_one_sagging_minus_one_hogging() {
             let e = stage::fit::eval_delta(&f, k, 0.0, dl, false).unwrap();
             let exact = closed_form(k, dl, combo == "down");
             assert!(
-                (e.mu_cr / exact - 1.0).abs() < 2e-3,
+                (e.mu_cr / exact - 1.0).abs() < 1e-3,
                 "{combo} κ {k} δ {dl}: fit {} closed form {exact}",
                 e.mu_cr
             );

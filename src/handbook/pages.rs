@@ -965,6 +965,16 @@ fn fit_box(path: &str, v: &Value) -> String {
             crate::sweep::fmt_num(b)
         ));
     }
+    // The values of the combination's axes (a fit per δ, per variant, …).
+    if let Some(Value::Object(m)) = val.and_then(|x| x.get("combination_labels")) {
+        let parts: Vec<String> = m
+            .iter()
+            .filter_map(|(k, x)| x.as_str().map(|t| format!("{k} = {t}")))
+            .collect();
+        if !parts.is_empty() {
+            dom.push(format!("for {}", parts.join(", ")));
+        }
+    }
     if let Some(Value::Object(m)) = val {
         for (k, x) in m {
             if let Some(t) = x.as_str() {
@@ -1452,7 +1462,7 @@ date = "2026-01-05"
             json!({
                 "form": "c-curves", "family": "tip", "combination": "down",
                 "validity": {"kappa_min": 0.5, "kappa_max": 1.0, "zeta_min": -0.6, "zeta_max": 0.6, "band": null,
-                             "delta_min": -0.4, "delta_max": 0.4},
+                             "delta_min": -0.4, "delta_max": 0.4, "combination_labels": {"direction": "down"}},
                 "typst": "mu_\"cr\" = C_1 pi (sqrt(1 + kappa^2 + (C_2 zeta + C_3 (pi delta)/2)^2) - (C_2 zeta + C_3 (pi delta)/2)), quad C_1 = 1.13, quad C_2 = 0.45, quad C_3 = 0.53, quad u = ln kappa / 1.2",
                 "max_rel_error": 0.02, "where": {"max_rel_error": {"value": 0.02, "kappa": 0.5, "zeta": 0.6, "delta": -0.4}},
                 "max_unconservative_error": 0.004, "rms_error": 0.003, "conservative": null,
@@ -1462,6 +1472,7 @@ date = "2026-01-05"
         let src = sources(&inp);
         let tip = page(&src, "family-tip.typ");
         assert!(tip.contains("-0.4 ≤ δ ≤ 0.4"), "{tip}");
+        assert!(tip.contains("; for direction = down"), "{tip}");
         assert!(tip.contains("(at κ = 0.5, ζ = 0.6, δ = -0.4)"), "{tip}");
         assert!(tip.contains("&C_3 = 0.53"), "{tip}");
     }
