@@ -201,6 +201,9 @@ enum Command {
         /// Load height parameter zeta.
         #[arg(long, allow_negative_numbers = true)]
         zeta: f64,
+        /// Monosymmetry parameter delta (fits made across delta only; default 0).
+        #[arg(long, allow_negative_numbers = true, default_value_t = 0.0)]
+        delta: f64,
         /// Print one JSON object.
         #[arg(long)]
         json: bool,
@@ -255,10 +258,11 @@ fn run(cli: Cli) -> Result<ExitCode> {
             fit,
             kappa,
             zeta,
+            delta,
             json,
             extrapolate,
         } => {
-            let e = stage::fit::eval(&fit, kappa, zeta, extrapolate)?;
+            let e = stage::fit::eval_delta(&fit, kappa, zeta, delta, extrapolate)?;
             let text = if json {
                 format!("{}\n", serde_json::to_string_pretty(&e.to_json())?)
             } else {

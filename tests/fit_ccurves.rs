@@ -24,6 +24,7 @@ fn recovers_coefficients_of_the_three_factor_form() {
             s.push(Sample {
                 kappa: k,
                 zeta: z,
+                delta: 0.0,
                 mu_cr: three_factor(c1(k), c2(k), k, z),
                 error_estimate: 0.0,
             });

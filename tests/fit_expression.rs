@@ -107,6 +107,7 @@ fn levenberg_marquardt_recovers_three_factor_coefficients() {
             s.push(Sample {
                 kappa: k,
                 zeta: z,
+                delta: 0.0,
                 mu_cr: three_factor(1.13, 0.45, k, z),
                 error_estimate: 0.0,
             });

@@ -23,6 +23,7 @@ fn grid(f: fn(f64, f64) -> f64, ks: &[f64], zs: &[f64], band: bool, e: f64) -> V
             s.push(Sample {
                 kappa: k,
                 zeta,
+                delta: 0.0,
                 mu_cr: f(k, zeta),
                 error_estimate: e,
             });
@@ -198,6 +199,7 @@ fn conservative_factor_holds_on_a_fresh_validation_grid() {
         let chk = Check {
             kappa: k,
             zeta: z,
+            delta: 0.0,
             fe,
             error_estimate: e,
             fit: c.mu_cr(k, z),

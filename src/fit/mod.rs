@@ -5,11 +5,12 @@
 //! on analytic surfaces.
 //!
 //! Three forms ([`Model`]):
-//! - `surface`: a tensor-product polynomial correction surface for μcr/μ0
-//!   in u = (ln κ − a)/b and v = (z − c)/d, where z = ζ on a rectangle or
-//!   z = ζ/κ on a band |ζ| ≤ c·κ (ζ written as multiples of κ): [`surface`];
-//! - `c-curves`: C1(κ) and C2(κ) of the three-factor form, smoothed in ln κ:
-//!   [`ccurves`];
+//! - `surface`: a tensor-product polynomial (or rational, P/Q: [`rational`])
+//!   correction surface for μcr/μ0 in u = (ln κ − a)/b and v = (z − c)/d,
+//!   where z = ζ on a rectangle or z = ζ/κ on a band |ζ| ≤ c·κ (ζ written
+//!   as multiples of κ): [`surface`];
+//! - `c-curves`: C1(κ) and C2(κ) of the three-factor form (and C3(κ) across
+//!   a monosymmetry axis δ), smoothed in ln κ: [`ccurves`];
 //! - `expression`: a user-written closed form with named parameters, fitted
 //!   by Levenberg–Marquardt: [`expr`].
 //!
@@ -31,6 +32,7 @@
 pub mod ccurves;
 pub mod expr;
 pub mod poly;
+pub mod rational;
 pub mod surface;
 
 use serde::{Deserialize, Serialize};
@@ -63,6 +65,10 @@ pub struct Sample {
     pub kappa: f64,
     /// ζ.
     pub zeta: f64,
+    /// δ (monosymmetry; 0 for a doubly symmetric section). Only the
+    /// c-curves form fitted across a δ axis reads it; every other form
+    /// fits one δ at a time.
+    pub delta: f64,
     /// μcr from the engine (an upper bound of the exact value).
     pub mu_cr: f64,
     /// Its relative error estimate.
@@ -98,6 +104,13 @@ pub struct Domain {
     pub band: Option<f64>,
     /// ζ/κ range when ζ follows κ.
     pub zeta_over_kappa: Option<[f64; 2]>,
+    /// Smallest δ when the fit spans a monosymmetry axis (else None: the
+    /// fit holds for δ = 0, or for its combination's one δ).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub delta_min: Option<f64>,
+    /// Largest δ when the fit spans a monosymmetry axis.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub delta_max: Option<f64>,
 }
 
 const EDGE: f64 = 1e-9;
@@ -112,6 +125,8 @@ impl Domain {
             zeta_max: z[1],
             band: None,
             zeta_over_kappa: None,
+            delta_min: None,
+            delta_max: None,
         }
     }
     /// A band: κ in k, ζ/κ in t.
@@ -124,6 +139,44 @@ impl Domain {
             zeta_max: ends.iter().copied().fold(f64::NEG_INFINITY, f64::max),
             band: Some(t[0].abs().max(t[1].abs())),
             zeta_over_kappa: Some(t),
+            delta_min: None,
+            delta_max: None,
+        }
+    }
+    /// The same domain spanning δ in `d` as a third coordinate.
+    pub fn with_delta(mut self, d: [f64; 2]) -> Domain {
+        self.delta_min = Some(d[0]);
+        self.delta_max = Some(d[1]);
+        self
+    }
+    /// The δ range when the domain spans δ.
+    pub fn delta_range(&self) -> Option<[f64; 2]> {
+        match (self.delta_min, self.delta_max) {
+            (Some(a), Some(b)) => Some([a, b]),
+            _ => None,
+        }
+    }
+    /// Why (κ, ζ, δ) lies outside the domain, or None when it lies inside.
+    /// A domain without δ holds only for δ = 0.
+    pub fn outside_delta(&self, kappa: f64, zeta: f64, delta: f64) -> Option<String> {
+        if let Some(w) = self.outside(kappa, zeta) {
+            return Some(w);
+        }
+        match self.delta_range() {
+            None if delta != 0.0 => Some(format!(
+                "delta = {delta}: this fit was not made across a monosymmetry axis and holds for delta = 0 only"
+            )),
+            None => None,
+            Some([d0, d1]) => {
+                let tol = |a: f64, b: f64| EDGE * (1.0 + a.abs().max(b.abs()));
+                if !(delta >= d0 - tol(delta, d0) && delta <= d1 + tol(delta, d1)) {
+                    Some(format!(
+                        "delta = {delta} lies outside the fitted range {d0} to {d1}"
+                    ))
+                } else {
+                    None
+                }
+            }
         }
     }
     /// The second fit coordinate: ζ, or ζ/κ on a band.
@@ -278,7 +331,7 @@ impl Transform {
 pub enum Model {
     /// Correction surface μcr/μ0 = Σ c_ij·u^i·v^j.
     Surface(surface::SurfaceModel),
-    /// Three-factor form with C1(κ), C2(κ).
+    /// Three-factor form with C1(κ), C2(κ) (and C3(κ) across δ).
     CCurves(ccurves::CCurvesModel),
     /// A user-written closed form.
     Expression(expr::ExpressionModel),
@@ -348,6 +401,19 @@ impl Formula {
 }
 
 impl Compiled<'_> {
+    /// μcr predicted by the formula at (κ, ζ, δ): δ enters only a c-curves
+    /// formula fitted across δ (every other form holds for one δ, and the
+    /// caller keeps to it).
+    pub fn mu_cr_delta(&self, kappa: f64, zeta: f64, delta: f64) -> f64 {
+        match &self.formula.model {
+            Model::CCurves(m) if !m.c3.is_empty() => {
+                m.mu_cr_delta(kappa, zeta, delta)
+                    * self.formula.factor.as_ref().map_or(1.0, |f| f.value)
+            }
+            _ => self.mu_cr(kappa, zeta),
+        }
+    }
+
     /// μcr predicted by the formula at (κ, ζ).
     pub fn mu_cr(&self, kappa: f64, zeta: f64) -> f64 {
         let m = match &self.formula.model {
@@ -390,6 +456,8 @@ pub struct Check {
     pub kappa: f64,
     /// ζ.
     pub zeta: f64,
+    /// δ (see [`Sample::delta`]).
+    pub delta: f64,
     /// μcr from the engine.
     pub fe: f64,
     /// Its relative error estimate.
@@ -438,6 +506,8 @@ pub struct At {
     pub kappa: f64,
     /// ζ where it occurs.
     pub zeta: f64,
+    /// δ where it occurs.
+    pub delta: f64,
 }
 
 /// Measured error bounds of a formula.
@@ -467,6 +537,7 @@ fn worst(checks: &[Check], f: impl Fn(&Check) -> f64) -> Option<At> {
                 value: v,
                 kappa: c.kappa,
                 zeta: c.zeta,
+                delta: c.delta,
             });
         }
     }
@@ -479,6 +550,7 @@ pub fn bounds(checks: &[Check]) -> Bounds {
         value: 0.0,
         kappa: f64::NAN,
         zeta: f64::NAN,
+        delta: f64::NAN,
     };
     let max_rel = worst(checks, Check::rel_bound).unwrap_or(zero);
     let mut unc = worst(checks, Check::unconservative).unwrap_or(zero);
@@ -546,6 +618,9 @@ impl Default for ValidationSettings {
 /// points, None for a case that did not solve.
 pub type Engine<'a, E> = dyn FnMut(&[(f64, f64)]) -> Result<Vec<Option<(f64, f64)>>, E> + 'a;
 
+/// The engine at (κ, ζ, δ) points (fits that span δ; see [`validate_delta`]).
+pub type EngineDelta<'a, E> = dyn FnMut(&[[f64; 3]]) -> Result<Vec<Option<(f64, f64)>>, E> + 'a;
+
 fn sorted_unique(mut v: Vec<f64>) -> Vec<f64> {
     v.sort_by(f64::total_cmp);
     v.dedup_by(|a, b| (*a - *b).abs() <= 1e-12 * (1.0 + b.abs()));
@@ -559,8 +634,23 @@ fn sorted_unique(mut v: Vec<f64>) -> Vec<f64> {
 /// ln κ = ln κ_a + (k + ½)/m · (ln κ_b − ln κ_a),   z = z_c + (l + ½)/m · (z_d − z_c),   k, l = 0 … m−1
 /// ```
 pub fn validation_points(domain: &Domain, samples: &[Sample], density: usize) -> Vec<(f64, f64)> {
+    validation_points_delta(domain, samples, density)
+        .into_iter()
+        .map(|p| (p[0], p[1]))
+        .collect()
+}
+
+/// Validation points in (κ, ζ, δ): as [`validation_points`], and across δ
+/// too when the samples hold more than one δ (sub-cell centres in δ as
+/// well, `density`³ per cell); with one δ every point carries it.
+pub fn validation_points_delta(
+    domain: &Domain,
+    samples: &[Sample],
+    density: usize,
+) -> Vec<[f64; 3]> {
     let ks = sorted_unique(samples.iter().map(|s| s.kappa.ln()).collect());
     let zs = sorted_unique(samples.iter().map(|s| domain.z(s.kappa, s.zeta)).collect());
+    let ds = sorted_unique(samples.iter().map(|s| s.delta).collect());
     let m = density.max(1);
     let mut out = Vec::new();
     let subs = |v: &[f64]| -> Vec<f64> {
@@ -575,10 +665,13 @@ pub fn validation_points(domain: &Domain, samples: &[Sample], density: usize) ->
         }
         o
     };
+    let dsub = subs(&ds);
     for lk in subs(&ks) {
         let kappa = lk.exp();
         for z in subs(&zs) {
-            out.push((kappa, domain.zeta(kappa, z)));
+            for &d in &dsub {
+                out.push([kappa, domain.zeta(kappa, z), d]);
+            }
         }
     }
     out
@@ -599,28 +692,50 @@ pub fn validate<E>(
     settings: ValidationSettings,
     engine: &mut Engine<'_, E>,
 ) -> Result<Vec<Check>, E> {
+    let mut e3 = |pts: &[[f64; 3]]| -> Result<Vec<Option<(f64, f64)>>, E> {
+        let p2: Vec<(f64, f64)> = pts.iter().map(|p| (p[0], p[1])).collect();
+        engine(&p2)
+    };
+    validate_delta(f, domain, samples, settings, &mut e3)
+}
+
+/// [`validate`] in (κ, ζ, δ): the validation grid is offset in δ as well
+/// when the samples span several δ, and the pattern search moves in δ too
+/// (26 neighbours per step); with one δ it is exactly [`validate`].
+///
+/// # References
+/// Hooke & Jeeves, J. ACM 8 (1961) 212–229.
+pub fn validate_delta<E>(
+    f: &Compiled<'_>,
+    domain: &Domain,
+    samples: &[Sample],
+    settings: ValidationSettings,
+    engine: &mut EngineDelta<'_, E>,
+) -> Result<Vec<Check>, E> {
     let mut checks: Vec<Check> = samples
         .iter()
         .map(|s| Check {
             kappa: s.kappa,
             zeta: s.zeta,
+            delta: s.delta,
             fe: s.mu_cr,
             error_estimate: s.error_estimate,
-            fit: f.mu_cr(s.kappa, s.zeta),
+            fit: f.mu_cr_delta(s.kappa, s.zeta, s.delta),
             origin: Origin::Grid,
         })
         .collect();
-    let pts = validation_points(domain, samples, settings.density);
+    let pts = validation_points_delta(domain, samples, settings.density);
     let solved = engine(&pts)?;
     let mut val: Vec<Check> = Vec::new();
-    for (&(kappa, zeta), r) in pts.iter().zip(solved) {
+    for (&[kappa, zeta, delta], r) in pts.iter().zip(solved) {
         if let Some((fe, e)) = r {
             val.push(Check {
                 kappa,
                 zeta,
+                delta,
                 fe,
                 error_estimate: e,
-                fit: f.mu_cr(kappa, zeta),
+                fit: f.mu_cr_delta(kappa, zeta, delta),
                 origin: Origin::Validation,
             });
         }
@@ -629,6 +744,7 @@ pub fn validate<E>(
     // Local search around the worst validation (and grid) points.
     let ks = sorted_unique(samples.iter().map(|s| s.kappa.ln()).collect());
     let zs = sorted_unique(samples.iter().map(|s| domain.z(s.kappa, s.zeta)).collect());
+    let ds = sorted_unique(samples.iter().map(|s| s.delta).collect());
     let spacing = |v: &[f64], x: f64| -> f64 {
         let mut h = f64::INFINITY;
         for w in v.windows(2) {
@@ -640,6 +756,10 @@ pub fn validate<E>(
     };
     let (lk0, lk1) = (domain.kappa_min.ln(), domain.kappa_max.ln());
     let [z0, z1] = domain.z_range();
+    let [d0, d1] = [
+        ds.first().copied().unwrap_or(0.0),
+        ds.last().copied().unwrap_or(0.0),
+    ];
     type Objective = fn(&Check) -> f64;
     let objectives: [Objective; 2] = [Check::rel_bound, Check::unconservative];
     let mut starts: Vec<(Check, usize)> = Vec::new();
@@ -647,10 +767,9 @@ pub fn validate<E>(
         let mut pool: Vec<Check> = checks.clone();
         pool.sort_by(|a, b| obj(b).total_cmp(&obj(a)));
         for c in pool.into_iter().take(settings.search_starts) {
-            if !starts
-                .iter()
-                .any(|(s, o)| *o == oi && s.kappa == c.kappa && s.zeta == c.zeta)
-            {
+            if !starts.iter().any(|(s, o)| {
+                *o == oi && s.kappa == c.kappa && s.zeta == c.zeta && s.delta == c.delta
+            }) {
                 starts.push((c, oi));
             }
         }
@@ -659,49 +778,54 @@ pub fn validate<E>(
         let obj = objectives[oi];
         let lk = start.kappa.ln();
         let z = domain.z(start.kappa, start.zeta);
-        let (hk, hz) = (spacing(&ks, lk), spacing(&zs, z));
-        let lo = [(lk - hk).max(lk0), (z - hz).max(z0)];
-        let hi = [(lk + hk).min(lk1), (z + hz).min(z1)];
+        let d = start.delta;
+        let (hk, hz, hd) = (spacing(&ks, lk), spacing(&zs, z), spacing(&ds, d));
+        let lo = [(lk - hk).max(lk0), (z - hz).max(z0), (d - hd).max(d0)];
+        let hi = [(lk + hk).min(lk1), (z + hz).min(z1), (d + hd).min(d1)];
         let mut cur = start;
-        let mut pos = [lk, z];
-        let mut step = [hk / 4.0, hz / 4.0];
+        let mut pos = [lk, z, d];
+        let mut step = [hk / 4.0, hz / 4.0, hd / 4.0];
         let mut halvings = 0;
-        while halvings < settings.search_halvings && (step[0] > 0.0 || step[1] > 0.0) {
-            let mut cand: Vec<[f64; 2]> = Vec::new();
+        while halvings < settings.search_halvings && step.iter().any(|s| *s > 0.0) {
+            let mut cand: Vec<[f64; 3]> = Vec::new();
             for dk in [-1.0, 0.0, 1.0] {
                 for dz in [-1.0, 0.0, 1.0] {
-                    if dk == 0.0 && dz == 0.0 {
-                        continue;
-                    }
-                    let p = [pos[0] + dk * step[0], pos[1] + dz * step[1]];
-                    if p[0] >= lo[0] - 1e-12
-                        && p[0] <= hi[0] + 1e-12
-                        && p[1] >= lo[1] - 1e-12
-                        && p[1] <= hi[1] + 1e-12
-                        && p != pos
-                        && !cand.contains(&p)
-                    {
-                        cand.push(p);
+                    for dd in [-1.0, 0.0, 1.0] {
+                        if dk == 0.0 && dz == 0.0 && dd == 0.0 {
+                            continue;
+                        }
+                        let p = [
+                            pos[0] + dk * step[0],
+                            pos[1] + dz * step[1],
+                            pos[2] + dd * step[2],
+                        ];
+                        if (0..3).all(|i| p[i] >= lo[i] - 1e-12 && p[i] <= hi[i] + 1e-12)
+                            && p != pos
+                            && !cand.contains(&p)
+                        {
+                            cand.push(p);
+                        }
                     }
                 }
             }
-            let pts: Vec<(f64, f64)> = cand
+            let pts: Vec<[f64; 3]> = cand
                 .iter()
                 .map(|p| {
                     let kappa = p[0].exp();
-                    (kappa, domain.zeta(kappa, p[1]))
+                    [kappa, domain.zeta(kappa, p[1]), p[2]]
                 })
                 .collect();
             let solved = engine(&pts)?;
             let mut moved = false;
-            for ((&(kappa, zeta), r), p) in pts.iter().zip(solved).zip(&cand) {
+            for ((&[kappa, zeta, delta], r), p) in pts.iter().zip(solved).zip(&cand) {
                 if let Some((fe, e)) = r {
                     let c = Check {
                         kappa,
                         zeta,
+                        delta,
                         fe,
                         error_estimate: e,
-                        fit: f.mu_cr(kappa, zeta),
+                        fit: f.mu_cr_delta(kappa, zeta, delta),
                         origin: Origin::Search,
                     };
                     checks.push(c);
@@ -713,7 +837,7 @@ pub fn validate<E>(
                 }
             }
             if !moved {
-                step = [step[0] / 2.0, step[1] / 2.0];
+                step = [step[0] / 2.0, step[1] / 2.0, step[2] / 2.0];
                 halvings += 1;
             }
         }

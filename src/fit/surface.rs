@@ -13,14 +13,71 @@
 //! target wins (else the candidate with the smallest cross-validated
 //! error, flagged as missing the target).
 //!
+//! A rational basis ([`Basis::Rational`]) divides such a polynomial P by
+//!
+//! ```text
+//! Q = 1 + Σ q_kl · u^k · v^l   (a few low powers, no constant term),   μcr/μ0 ≈ P/Q
+//! ```
+//!
+//! fitted by [`super::rational`] (Loeb's linearised least squares, the
+//! Sanathanan–Koerner iteration, then Levenberg–Marquardt on the relative
+//! error). Q must stay at or above 0.01 on a dense 101 × 101 grid over the
+//! whole domain, else the candidate is rejected. Candidates are ordered by
+//! their total number of coefficients (numerator plus denominator), and
+//! the first meeting the target on the grid and under the same 5-fold
+//! cross-validation wins. [`Basis::Auto`] keeps the polynomial when it
+//! meets the target and otherwise takes the rational fit when that meets
+//! the target or has the smaller cross-validated error; both are
+//! deterministic.
+//!
 //! # References
 //! - Golub & Van Loan, *Matrix Computations*, 4th ed., 2013, §5.5.
 //! - Hastie, Tibshirani & Friedman, *The Elements of Statistical Learning*,
 //!   2nd ed., 2009, §7.10.
+//! - Sanathanan & Koerner, IEEE Trans. Automatic Control 8 (1963) 56–58
+//!   (see [`super::rational`]).
 
 use super::poly::{cv_max_rel, max_rel, powers, relative_lsq};
-use super::{Coef, Domain, FitError, Sample, Transform, mu0, typst_num};
+use super::{Coef, Domain, FitError, Sample, Transform, mu0, rational, typst_num};
 use serde::{Deserialize, Serialize};
+
+/// The basis family of a surface.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Basis {
+    /// Polynomials P in (u, v) (the default).
+    #[default]
+    Polynomial,
+    /// Rational functions P/Q.
+    Rational,
+    /// The polynomial when it meets the target, else the better of the two.
+    Auto,
+}
+
+impl Basis {
+    /// The spec word.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Basis::Polynomial => "polynomial",
+            Basis::Rational => "rational",
+            Basis::Auto => "auto",
+        }
+    }
+}
+
+/// Denominator term sets tried by the rational basis (powers (k, l) of
+/// u^k·v^l; Q = 1 + Σ q_kl·u^k·v^l), fewest terms first.
+const DENOMINATORS: &[&[(usize, usize)]] = &[
+    &[(1, 0)],
+    &[(0, 1)],
+    &[(1, 0), (0, 1)],
+    &[(1, 0), (2, 0)],
+    &[(0, 1), (0, 2)],
+    &[(1, 0), (0, 1), (1, 1)],
+    &[(1, 0), (0, 1), (2, 0), (1, 1), (0, 2)],
+];
+
+/// Points per side of the grid on which Q is checked.
+const Q_GRID: usize = 101;
 
 /// Options of the surface fit.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -31,6 +88,8 @@ pub struct SurfaceOptions {
     pub max_degree: usize,
     /// Cross-validation folds.
     pub folds: usize,
+    /// Polynomial, rational or automatic.
+    pub basis: Basis,
 }
 
 impl Default for SurfaceOptions {
@@ -39,6 +98,7 @@ impl Default for SurfaceOptions {
             target: 0.01,
             max_degree: 6,
             folds: 5,
+            basis: Basis::Polynomial,
         }
     }
 }
@@ -63,8 +123,12 @@ pub struct SurfaceModel {
     pub v: Transform,
     /// True when z = ζ/κ (band domain), false when z = ζ.
     pub zeta_over_kappa: bool,
-    /// The terms.
+    /// The terms (of the numerator P for a rational surface).
     pub terms: Vec<Term>,
+    /// Denominator terms of a rational surface, Q = 1 + Σ q·u^i·v^j
+    /// (empty for a polynomial).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub denominator: Vec<Term>,
 }
 
 /// The unrounded fit and how it was chosen.
@@ -87,6 +151,10 @@ pub struct SurfaceFit {
     pub zeta_over_kappa: bool,
     /// Coefficients c_ij in the order of `powers`, unrounded.
     pub coefficients: Vec<f64>,
+    /// Denominator powers (k, l) of a rational surface (empty: polynomial).
+    pub den_powers: Vec<(usize, usize)>,
+    /// Denominator coefficients q_kl, unrounded.
+    pub den_coefficients: Vec<f64>,
     /// Largest relative error on the fit grid (unrounded).
     pub train_max_rel: f64,
     /// Largest held-out relative error of the cross-validation.
@@ -111,8 +179,23 @@ impl SurfaceFit {
         } else {
             zeta
         };
-        let r = row(self.u.apply(kappa.ln()), self.v.apply(z), &self.powers);
-        r.iter().zip(&self.coefficients).map(|(a, b)| a * b).sum()
+        let (u, v) = (self.u.apply(kappa.ln()), self.v.apply(z));
+        let r = row(u, v, &self.powers);
+        let p: f64 = r.iter().zip(&self.coefficients).map(|(a, b)| a * b).sum();
+        if self.den_powers.is_empty() {
+            return p;
+        }
+        let d = row(u, v, &self.den_powers);
+        p / (1.0
+            + d.iter()
+                .zip(&self.den_coefficients)
+                .map(|(a, b)| a * b)
+                .sum::<f64>())
+    }
+
+    /// True for a rational surface.
+    pub fn is_rational(&self) -> bool {
+        !self.den_powers.is_empty()
     }
 
     /// The model with coefficients rounded to `digits` significant digits.
@@ -127,17 +210,56 @@ impl SurfaceFit {
                 coef: Coef::new(&format!("c{i}{j}"), c, digits),
             })
             .collect();
+        let denominator = self
+            .den_powers
+            .iter()
+            .zip(&self.den_coefficients)
+            .map(|(&(i, j), &c)| Term {
+                i,
+                j,
+                coef: Coef::new(&format!("q{i}{j}"), c, digits),
+            })
+            .collect();
         SurfaceModel {
             u: self.u.clone(),
             v: self.v.clone(),
             zeta_over_kappa: self.zeta_over_kappa,
             terms,
+            denominator,
         }
     }
 }
 
-/// Fit the surface to the samples over `domain`.
-pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
+/// Everything the candidates share: transformed points, values, the edge
+/// rows, the numerator candidates in order.
+struct Prep {
+    u: Transform,
+    v: Transform,
+    band: bool,
+    uv: Vec<(f64, f64)>,
+    y: Vec<f64>,
+    edge: Vec<bool>,
+    /// Numerator term sets (tensor flag), sorted as the polynomial tries them.
+    cands: Vec<(Vec<(usize, usize)>, bool)>,
+    /// Highest powers the grid carries in u and v.
+    pm: usize,
+    qm: usize,
+    /// The domain in (u, v).
+    ubox: [f64; 2],
+    vbox: [f64; 2],
+}
+
+fn degree(t: &[(usize, usize)]) -> usize {
+    t.iter().map(|&(i, j)| i + j).max().unwrap_or(0)
+}
+fn pmax(t: &[(usize, usize)]) -> usize {
+    t.iter().map(|x| x.0).max().unwrap_or(0)
+}
+fn qmax(t: &[(usize, usize)]) -> usize {
+    t.iter().map(|x| x.1).max().unwrap_or(0)
+}
+
+fn prepare(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Prep, FitError> {
     if samples.iter().any(|s| s.kappa <= 0.0) {
         return Err(FitError::Data(
             "the surface uses ln κ: κ = 0 is not allowed; start the kappa axis at a small positive value such as 0.05".into(),
@@ -203,28 +325,69 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
             samples.len()
         )));
     }
-    let degree = |t: &[(usize, usize)]| t.iter().map(|&(i, j)| i + j).max().unwrap_or(0);
-    let pmax = |t: &[(usize, usize)]| t.iter().map(|x| x.0).max().unwrap_or(0);
     cands.sort_by_key(|(t, tensor)| (t.len(), degree(t), pmax(t), !*tensor));
+    let ubox = [
+        u.apply(domain.kappa_min.ln()),
+        u.apply(domain.kappa_max.ln()),
+    ];
+    let vbox = [v.apply(z0), v.apply(z1)];
+    Ok(Prep {
+        u,
+        v,
+        band,
+        uv,
+        y,
+        edge,
+        cands,
+        pm,
+        qm,
+        ubox,
+        vbox,
+    })
+}
+
+/// Fit the surface to the samples over `domain`.
+pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
+    let prep = prepare(samples, domain, o)?;
+    match o.basis {
+        Basis::Polynomial => polynomial(&prep, o),
+        Basis::Rational => rational_fit(&prep, o),
+        Basis::Auto => {
+            let p = polynomial(&prep, o)?;
+            if p.target_met {
+                return Ok(p);
+            }
+            match rational_fit(&prep, o) {
+                Ok(r) if r.target_met || r.cv_max_rel < p.cv_max_rel => Ok(r),
+                _ => Ok(p),
+            }
+        }
+    }
+}
+
+fn polynomial(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
+    let (uv, y, edge) = (&prep.uv, &prep.y, &prep.edge);
     let mut best: Option<SurfaceFit> = None;
-    for (terms, tensor) in cands {
+    for (terms, tensor) in prep.cands.iter().cloned() {
         let rows: Vec<Vec<f64>> = uv.iter().map(|&(a, b)| row(a, b, &terms)).collect();
-        let (p, q) = (pmax(&terms), terms.iter().map(|x| x.1).max().unwrap_or(0));
-        let Ok(c) = relative_lsq(&rows, &y) else {
+        let (p, q) = (pmax(&terms), qmax(&terms));
+        let Ok(c) = relative_lsq(&rows, y) else {
             continue;
         };
-        let train = max_rel(&rows, &y, &c);
-        let cv = cv_max_rel(&rows, &y, o.folds, &edge);
+        let train = max_rel(&rows, y, &c);
+        let cv = cv_max_rel(&rows, y, o.folds, edge);
         let met = train <= o.target && cv <= o.target;
         let f = SurfaceFit {
             p,
             q,
             powers: terms,
             tensor,
-            u: u.clone(),
-            v: v.clone(),
-            zeta_over_kappa: band,
+            u: prep.u.clone(),
+            v: prep.v.clone(),
+            zeta_over_kappa: prep.band,
             coefficients: c,
+            den_powers: Vec::new(),
+            den_coefficients: Vec::new(),
             train_max_rel: train,
             cv_max_rel: cv,
             target_met: met,
@@ -239,6 +402,117 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
     best.ok_or_else(|| FitError::Data("no candidate surface could be fitted".into()))
 }
 
+/// Smallest Q of a denominator over a dense grid of the (u, v) domain.
+fn q_min_on_domain(prep: &Prep, den: &[(usize, usize)], q: &[f64]) -> f64 {
+    let at = |b: [f64; 2], k: usize| b[0] + (b[1] - b[0]) * k as f64 / (Q_GRID - 1) as f64;
+    rational::min_denominator(
+        q,
+        (0..Q_GRID)
+            .flat_map(|a| (0..Q_GRID).map(move |b| row(at(prep.ubox, a), at(prep.vbox, b), den))),
+    )
+}
+
+fn rational_fit(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
+    let (uv, y, edge) = (&prep.uv, &prep.y, &prep.edge);
+    let dens: Vec<Vec<(usize, usize)>> = DENOMINATORS
+        .iter()
+        .map(|d| d.to_vec())
+        .filter(|d| pmax(d) <= prep.pm && qmax(d) <= prep.qm)
+        .collect();
+    type Powers = Vec<(usize, usize)>;
+    let mut cands: Vec<(&Powers, bool, &Powers)> = Vec::new();
+    for (t, tensor) in &prep.cands {
+        for d in &dens {
+            if t.len() + d.len() < uv.len() {
+                cands.push((t, *tensor, d));
+            }
+        }
+    }
+    // Fewest coefficients first; then fewer denominator terms, then the
+    // numerator's order of the polynomial basis.
+    cands.sort_by_key(|(t, tensor, d)| (t.len() + d.len(), d.len(), degree(t), pmax(t), !*tensor));
+    let mut best: Option<SurfaceFit> = None;
+    for (terms, tensor, den) in cands {
+        let nrows: Vec<Vec<f64>> = uv.iter().map(|&(a, b)| row(a, b, terms)).collect();
+        let drows: Vec<Vec<f64>> = uv.iter().map(|&(a, b)| row(a, b, den)).collect();
+        let Some(r) = rational::fit(&nrows, &drows, y) else {
+            continue;
+        };
+        let train = (0..y.len())
+            .map(|i| (r.value(&nrows[i], &drows[i]) / y[i] - 1.0).abs())
+            .fold(0.0, f64::max);
+        // A candidate already outside the target on its own grid cannot
+        // win, and cannot beat a fallback whose held-out error is below
+        // its grid error: skip its cross-validation.
+        if train > o.target && best.as_ref().is_some_and(|b| b.cv_max_rel <= train) {
+            continue;
+        }
+        let cv = rational::cv_max_rel(&nrows, &drows, y, o.folds, edge);
+        let met = train <= o.target && cv <= o.target;
+        if !met && best.as_ref().is_some_and(|b| cv >= b.cv_max_rel) {
+            continue;
+        }
+        if q_min_on_domain(prep, den, &r.q) < rational::Q_MIN {
+            continue;
+        }
+        let f = SurfaceFit {
+            p: pmax(terms),
+            q: qmax(terms),
+            powers: terms.clone(),
+            tensor,
+            u: prep.u.clone(),
+            v: prep.v.clone(),
+            zeta_over_kappa: prep.band,
+            coefficients: r.p,
+            den_powers: den.clone(),
+            den_coefficients: r.q,
+            train_max_rel: train,
+            cv_max_rel: cv,
+            target_met: met,
+        };
+        if met {
+            return Ok(f);
+        }
+        best = Some(f);
+    }
+    best.ok_or_else(|| {
+        FitError::Data(
+            "no candidate rational surface could be fitted with a positive denominator".into(),
+        )
+    })
+}
+
+/// Σ c·u^i·v^j as typst, signs folded into the joins (the coefficients as
+/// printed).
+fn sum_typst(terms: &[Term]) -> String {
+    let mut s = String::new();
+    let mut first = true;
+    for t in terms {
+        let text = &t.coef.text;
+        let (neg, mag) = match text.strip_prefix('-') {
+            Some(m) => (true, m),
+            None => (false, text.as_str()),
+        };
+        if first {
+            if neg {
+                s.push('-');
+            }
+        } else {
+            s.push_str(if neg { " - " } else { " + " });
+        }
+        first = false;
+        s.push_str(&typst_num(mag));
+        for (var, pw) in [("u", t.i), ("v", t.j)] {
+            match pw {
+                0 => {}
+                1 => s.push_str(&format!(" {var}")),
+                n => s.push_str(&format!(" {var}^{n}")),
+            }
+        }
+    }
+    s
+}
+
 impl SurfaceModel {
     /// μcr/μ0 with the printed coefficients.
     pub fn ratio(&self, kappa: f64, zeta: f64) -> f64 {
@@ -249,10 +523,46 @@ impl SurfaceModel {
         };
         let u = self.u.apply(kappa.ln());
         let v = self.v.apply(z);
-        self.terms
+        let p: f64 = self
+            .terms
             .iter()
             .map(|t| t.coef.value * u.powi(t.i as i32) * v.powi(t.j as i32))
-            .sum()
+            .sum();
+        if self.denominator.is_empty() {
+            return p;
+        }
+        p / self.q(u, v)
+    }
+
+    /// Q = 1 + Σ q·u^i·v^j at (u, v) with the printed coefficients (1 for a
+    /// polynomial).
+    pub fn q(&self, u: f64, v: f64) -> f64 {
+        1.0 + self
+            .denominator
+            .iter()
+            .map(|t| t.coef.value * u.powi(t.i as i32) * v.powi(t.j as i32))
+            .sum::<f64>()
+    }
+
+    /// The smallest Q with the printed coefficients on a dense grid over the
+    /// domain (1 for a polynomial).
+    pub fn q_min(&self, domain: &Domain) -> f64 {
+        if self.denominator.is_empty() {
+            return 1.0;
+        }
+        let [z0, z1] = domain.z_range();
+        let (ub, vb) = (
+            [
+                self.u.apply(domain.kappa_min.ln()),
+                self.u.apply(domain.kappa_max.ln()),
+            ],
+            [self.v.apply(z0), self.v.apply(z1)],
+        );
+        let at = |b: [f64; 2], k: usize| b[0] + (b[1] - b[0]) * k as f64 / (Q_GRID - 1) as f64;
+        (0..Q_GRID)
+            .flat_map(|a| (0..Q_GRID).map(move |b| (a, b)))
+            .map(|(a, b)| self.q(at(ub, a), at(vb, b)))
+            .fold(f64::INFINITY, f64::min)
     }
 
     /// Printed coefficients: the transforms, then c_ij.
@@ -264,35 +574,27 @@ impl SurfaceModel {
             self.v.scale.clone(),
         ];
         c.extend(self.terms.iter().map(|t| t.coef.clone()));
+        c.extend(self.denominator.iter().map(|t| t.coef.clone()));
         c
     }
 
     /// Typst math source.
     pub fn typst(&self) -> String {
-        let mut s = String::from("mu_\"cr\" / mu_0 = ");
-        let mut first = true;
-        for t in &self.terms {
-            let text = &t.coef.text;
-            let (neg, mag) = match text.strip_prefix('-') {
-                Some(m) => (true, m),
-                None => (false, text.as_str()),
+        // A rational surface prints Q·μcr/μ0 = P, so that P wraps like a
+        // polynomial's sum; Q follows among the definitions.
+        let mut s = String::from(if self.denominator.is_empty() {
+            "mu_\"cr\" / mu_0 = "
+        } else {
+            "Q mu_\"cr\" / mu_0 = "
+        });
+        s.push_str(&sum_typst(&self.terms));
+        if !self.denominator.is_empty() {
+            let q = sum_typst(&self.denominator);
+            let q = match q.strip_prefix('-') {
+                Some(rest) => format!("1 - {rest}"),
+                None => format!("1 + {q}"),
             };
-            if first {
-                if neg {
-                    s.push('-');
-                }
-            } else {
-                s.push_str(if neg { " - " } else { " + " });
-            }
-            first = false;
-            s.push_str(&typst_num(mag));
-            for (var, pw) in [("u", t.i), ("v", t.j)] {
-                match pw {
-                    0 => {}
-                    1 => s.push_str(&format!(" {var}")),
-                    n => s.push_str(&format!(" {var}^{n}")),
-                }
-            }
+            s.push_str(&format!(", quad Q = {q}"));
         }
         let z = if self.zeta_over_kappa {
             "zeta / kappa"

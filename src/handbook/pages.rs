@@ -782,8 +782,12 @@ fn where_of(v: &Value, key: &str) -> Option<String> {
         .or_else(|| v.get("where").and_then(|x| x.get(key)))?;
     let k = number(w.get("kappa"));
     let z = number(w.get("zeta"));
+    let d = number(w.get("delta"));
     match (k, z) {
-        (Some(k), Some(z)) => Some(format!("at κ = {}, ζ = {}", loc(k), loc(z))),
+        (Some(k), Some(z)) => Some(match d {
+            Some(d) => format!("at κ = {}, ζ = {}, δ = {}", loc(k), loc(z), loc(d)),
+            None => format!("at κ = {}, ζ = {}", loc(k), loc(z)),
+        }),
         (Some(k), None) => Some(format!("at κ = {}", loc(k))),
         _ => None,
     }
@@ -953,6 +957,23 @@ fn fit_box(path: &str, v: &Value) -> String {
     }
     if let Some(c) = vn("band") {
         dom.push(format!("|ζ| ≤ {}·κ", crate::sweep::fmt_num(c)));
+    }
+    if let (Some(a), Some(b)) = (vn("delta_min"), vn("delta_max")) {
+        dom.push(format!(
+            "{} ≤ δ ≤ {} (δ < 0: larger flange on top)",
+            crate::sweep::fmt_num(a),
+            crate::sweep::fmt_num(b)
+        ));
+    }
+    // The values of the combination's axes (a fit per δ, per variant, …).
+    if let Some(Value::Object(m)) = val.and_then(|x| x.get("combination_labels")) {
+        let parts: Vec<String> = m
+            .iter()
+            .filter_map(|(k, x)| x.as_str().map(|t| format!("{k} = {t}")))
+            .collect();
+        if !parts.is_empty() {
+            dom.push(format!("for {}", parts.join(", ")));
+        }
     }
     if let Some(Value::Object(m)) = val {
         for (k, x) in m {
@@ -1428,6 +1449,32 @@ date = "2026-01-05"
         let span = page(&src, "family-span.typ");
         assert!(span.contains("/charts/span.x.svg"));
         assert!(span.contains("0.900"), "{span}");
+    }
+
+    #[test]
+    fn a_c3_fit_shows_its_delta_range_and_where_its_errors_peak() {
+        // TEST DATA: a hand-made c-curves fit file across δ in the fit
+        // stage's contract format; the numbers are invented for the test.
+        let (spec, h) = parsed();
+        let mut inp = inputs(&h, &spec);
+        inp.fits = vec![(
+            "/fit/tip.c-curves.down.fit.json".into(),
+            json!({
+                "form": "c-curves", "family": "tip", "combination": "down",
+                "validity": {"kappa_min": 0.5, "kappa_max": 1.0, "zeta_min": -0.6, "zeta_max": 0.6, "band": null,
+                             "delta_min": -0.4, "delta_max": 0.4, "combination_labels": {"direction": "down"}},
+                "typst": "mu_\"cr\" = C_1 pi (sqrt(1 + kappa^2 + (C_2 zeta + C_3 (pi delta)/2)^2) - (C_2 zeta + C_3 (pi delta)/2)), quad C_1 = 1.13, quad C_2 = 0.45, quad C_3 = 0.53, quad u = ln kappa / 1.2",
+                "max_rel_error": 0.02, "where": {"max_rel_error": {"value": 0.02, "kappa": 0.5, "zeta": 0.6, "delta": -0.4}},
+                "max_unconservative_error": 0.004, "rms_error": 0.003, "conservative": null,
+                "design_formula": true, "threshold": 0.01
+            }),
+        )];
+        let src = sources(&inp);
+        let tip = page(&src, "family-tip.typ");
+        assert!(tip.contains("-0.4 ≤ δ ≤ 0.4"), "{tip}");
+        assert!(tip.contains("; for direction = down"), "{tip}");
+        assert!(tip.contains("(at κ = 0.5, ζ = 0.6, δ = -0.4)"), "{tip}");
+        assert!(tip.contains("&C_3 = 0.53"), "{tip}");
     }
 
     #[test]

@@ -17,6 +17,7 @@
 //! digits = 4                              # significant digits printed (2..=8)
 //! validation = 2                          # validation points per cell and direction
 //! max_degree = 6                          # surface: highest degree in u and in v
+//! basis = "polynomial"                    # surface: "polynomial" (default), "rational" or "auto"
 //! expression = "a*pi*sqrt(1 + kappa^2) + b*zeta"
 //! quantity = "mu_cr"                      # or "mu_ratio" (μcr/μ0)
 //! parameters = { a = 1.0, b = -0.5 }      # start values
@@ -70,6 +71,7 @@ const FIT_KEYS: &[&str] = &[
     "digits",
     "validation",
     "max_degree",
+    "basis",
     "expression",
     "quantity",
     "parameters",
@@ -94,6 +96,8 @@ pub struct FitSpec {
     pub validation: usize,
     /// Highest degree of the surface in u and v.
     pub max_degree: usize,
+    /// Basis family of the surface.
+    pub basis: surface::Basis,
     /// Expression source (expression form).
     pub expression: Option<String>,
     /// What the expression gives.
@@ -114,6 +118,7 @@ impl FitSpec {
             digits: 4,
             validation: 2,
             max_degree: 6,
+            basis: surface::Basis::Polynomial,
             expression: None,
             quantity: Quantity::MuCr,
             parameters: Vec::new(),
@@ -279,6 +284,20 @@ fn fit_table(src: &Source<'_>, t: &Tab<'_>) -> Result<FitSpec, CaseError> {
             }
         }
     }
+    if let Some((b, _)) = t.choice(
+        "basis",
+        &["polynomial", "rational", "auto"],
+        "surface basis",
+    )? {
+        if s.form != Form::Surface {
+            return Err(t.err_at("basis", "`basis` belongs to form = \"surface\" only"));
+        }
+        s.basis = match b {
+            "rational" => surface::Basis::Rational,
+            "auto" => surface::Basis::Auto,
+            _ => surface::Basis::Polynomial,
+        };
+    }
     if let Some((q, _)) = t.choice("quantity", &["mu_cr", "mu_ratio"], "quantity")? {
         s.quantity = if q == "mu_cr" {
             Quantity::MuCr
@@ -339,6 +358,88 @@ fn fit_table(src: &Source<'_>, t: &Tab<'_>) -> Result<FitSpec, CaseError> {
 }
 
 /// The domain and the κ/ζ axes a family's grid offers, or what to add.
+/// The family's monosymmetry path axis: (index in `f.axes`, position among
+/// the path axes, values).
+fn delta_axis(f: &Family) -> Option<(usize, usize, Vec<f64>)> {
+    let mut pos = 0;
+    for (i, a) in f.axes.iter().enumerate() {
+        if let Axis::Path { field, values, .. } = a {
+            if *field == crate::sweep::path::FieldPath::Delta {
+                return Some((i, pos, values.clone()));
+            }
+            pos += 1;
+        }
+    }
+    None
+}
+
+/// True when the fit spans the family's δ axis (c-curves with C3) instead
+/// of making one fit per δ.
+fn spans_delta(f: &Family, spec: &FitSpec) -> bool {
+    spec.form == Form::CCurves && delta_axis(f).is_some()
+}
+
+/// The domain of one declared fit: the family's (κ, ζ) domain, and for a
+/// c-curves fit across δ the δ range too (a ζ axis is then optional: without
+/// it the fit holds at ζ = 0).
+fn spec_domain(f: &Family, spec: &FitSpec, spec_origin: &str) -> Result<Domain> {
+    if !spans_delta(f, spec) {
+        return family_domain(f, spec_origin);
+    }
+    let (_, _, ds) = delta_axis(f).expect("checked");
+    let has_zeta = f.axes.iter().any(|a| matches!(a, Axis::Zeta(_)));
+    let d = if has_zeta {
+        family_domain(f, spec_origin)?
+    } else {
+        let base = family_domain_kappa(f, spec_origin)?;
+        Domain::rectangle([base.0, base.1], [0.0, 0.0])
+    };
+    let (d0, d1) = (
+        ds.iter().copied().fold(f64::INFINITY, f64::min),
+        ds.iter().copied().fold(f64::NEG_INFINITY, f64::max),
+    );
+    if !ds.iter().any(|x| *x != 0.0) || d0 == d1 {
+        bail!(
+            "{spec_origin}: family {}: a c-curves fit across delta needs at least 2 distinct delta values, some non-zero (C3 is determined by delta != 0); add values to the delta axis",
+            f.name
+        );
+    }
+    Ok(d.with_delta([d0, d1]))
+}
+
+/// κ range of a family's grid (checked as [`family_domain`] checks it).
+fn family_domain_kappa(f: &Family, spec_origin: &str) -> Result<(f64, f64)> {
+    let Some(ks) = f.axes.iter().find_map(|a| match a {
+        Axis::Kappa(v) => Some(v.clone()),
+        _ => None,
+    }) else {
+        bail!(
+            "{spec_origin}: family {}: fits need a kappa axis; add `kappa = [...]` to the family (or drop `fit`)",
+            f.name
+        );
+    };
+    let (k0, k1) = (
+        ks.iter().copied().fold(f64::INFINITY, f64::min),
+        ks.iter().copied().fold(f64::NEG_INFINITY, f64::max),
+    );
+    let mut distinct = ks.clone();
+    distinct.sort_by(f64::total_cmp);
+    distinct.dedup();
+    if distinct.len() < 3 {
+        bail!(
+            "{spec_origin}: family {}: a fit needs at least 3 kappa values; add values to the kappa axis",
+            f.name
+        );
+    }
+    if k0 <= 0.0 {
+        bail!(
+            "{spec_origin}: family {}: fits work in ln kappa, so kappa = 0 is not allowed; start the kappa axis at a small positive value such as 0.05",
+            f.name
+        );
+    }
+    Ok((k0, k1))
+}
+
 fn family_domain(f: &Family, spec_origin: &str) -> Result<Domain> {
     let ks = f.axes.iter().find_map(|a| match a {
         Axis::Kappa(v) => Some(v.clone()),
@@ -432,6 +533,15 @@ fn at(a: &fit::At) -> Value {
     json!({"value": num(a.value), "kappa": num(a.kappa), "zeta": num(a.zeta)})
 }
 
+/// [`at`] with δ when the fit spans δ.
+fn at_d(a: &fit::At, mono: bool) -> Value {
+    let mut v = at(a);
+    if mono {
+        v["delta"] = num(a.delta);
+    }
+    v
+}
+
 /// One fit's result.
 struct Done {
     file: String,
@@ -450,8 +560,9 @@ fn fit_one(
     domain: &Domain,
     samples: &[Sample],
     excluded: usize,
-    engine: &mut fit::Engine<'_, anyhow::Error>,
+    engine: &mut fit::EngineDelta<'_, anyhow::Error>,
 ) -> Result<Done> {
+    let mono = domain.delta_range().is_some();
     let ctx = || {
         format!(
             "family {}, fit {}, combination {}",
@@ -466,6 +577,7 @@ fn fit_one(
                 target: spec.target,
                 max_degree: spec.max_degree,
                 folds: 5,
+                basis: spec.basis,
             };
             let s = surface::fit(samples, domain, o).with_context(ctx)?;
             details.insert("degree_u".into(), json!(s.p));
@@ -483,35 +595,95 @@ fn fit_one(
             details.insert("cross_validation_max_rel_error".into(), num(s.cv_max_rel));
             details.insert("cross_validation_folds".into(), json!(o.folds));
             details.insert("target_met".into(), json!(s.target_met));
-            Model::Surface(s.printed(spec.digits))
+            if spec.basis != surface::Basis::Polynomial {
+                details.insert("basis_option".into(), json!(spec.basis.as_str()));
+                details.insert(
+                    "basis_family".into(),
+                    json!(if s.is_rational() {
+                        "rational"
+                    } else {
+                        "polynomial"
+                    }),
+                );
+                details.insert("denominator_terms".into(), json!(s.den_powers.len()));
+            }
+            let m = s.printed(spec.digits);
+            let qmin = m.q_min(domain);
+            if s.is_rational() {
+                if !(qmin > 0.0) {
+                    bail!(
+                        "{}: the rational surface's denominator, with its coefficients printed to {} digits, reaches {qmin} inside the domain; print more digits (`digits`) or use basis = \"polynomial\"",
+                        ctx(),
+                        spec.digits
+                    );
+                }
+                details.insert("denominator_min".into(), num(qmin));
+            }
+            Model::Surface(m)
         }
         Form::CCurves => {
             let c = ccurves::fit(samples, domain, spec.target).with_context(ctx)?;
             details.insert("c1_degree".into(), json!(c.c1.len() - 1));
-            details.insert("c2_degree".into(), json!(c.c2.len() - 1));
+            if c.c2.is_empty() {
+                details.insert("c2_degree".into(), Value::Null);
+                details.insert(
+                    "c2".into(),
+                    json!("not determined: zeta is not swept (every point at zeta = 0); the formula holds at zeta = 0 only"),
+                );
+            } else {
+                details.insert("c2_degree".into(), json!(c.c2.len() - 1));
+            }
             details.insert("c1_smoothing_deviation".into(), num(c.c1_smoothing));
             details.insert("c2_smoothing_deviation".into(), num(c.c2_smoothing));
-            details.insert(
-                "c3".into(),
-                json!("not fitted: the family does not sweep monosymmetry"),
-            );
+            if mono {
+                details.insert("c3_degree".into(), json!(c.c3.len() - 1));
+                details.insert("c3_smoothing_deviation".into(), num(c.c3_smoothing));
+                details.insert(
+                    "c3_sign".into(),
+                    json!("C3 multiplies pi*delta/2 with the geometric delta (beta_y with z up, negative when the larger flange is on top): uniform sagging moment gives C3 = +1, uniform hogging moment C3 = -1"),
+                );
+            } else {
+                details.insert(
+                    "c3".into(),
+                    json!("not fitted: the family does not sweep monosymmetry"),
+                );
+            }
             let per: Vec<Value> = c
                 .per_kappa
                 .iter()
                 .map(|p| {
-                    json!({"kappa": num(p.kappa), "c1": num(p.c1), "c2": num(p.c2), "points": p.points,
+                    let mut v = json!({"kappa": num(p.kappa), "c1": num(p.c1), "c2": num(p.c2), "points": p.points,
                     "c1_at_zeta0": p.c1_at_zeta0.map_or(Value::Null, num),
                     "max_rel_error": num(p.max_rel),
                     "unconservative_zeta_positive": num(p.unconservative_zeta_positive),
-                    "unconservative_zeta_negative": num(p.unconservative_zeta_negative)})
+                    "unconservative_zeta_negative": num(p.unconservative_zeta_negative)});
+                    if mono {
+                        if !p.c2_determined {
+                            v["c2"] = Value::Null;
+                        }
+                        v["c3"] = p.c3.map_or(Value::Null, num);
+                    }
+                    v
                 })
                 .collect();
             for p in &c.per_kappa {
-                extra_rows.push(vec![
+                let c2 = if p.c2_determined {
+                    fit::print_sig(p.c2, 6)
+                } else {
+                    String::new()
+                };
+                let mut row = vec![
                     combo.name.clone(),
                     fmt_num(p.kappa),
                     fit::print_sig(p.c1, 6),
-                    fit::print_sig(p.c2, 6),
+                    c2,
+                ];
+                if mono {
+                    row.push(p.c3.map(|c| fit::print_sig(c, 6)).unwrap_or_default());
+                }
+                extra_rows.push(row);
+                let row = extra_rows.last_mut().expect("pushed");
+                row.extend([
                     p.points.to_string(),
                     p.c1_at_zeta0
                         .map(|c| fit::print_sig(c, 6))
@@ -554,12 +726,12 @@ fn fit_one(
     let mut failed = 0usize;
     let mut checks: Vec<Check> = {
         let compiled = formula.compile().with_context(ctx)?;
-        let mut counting = |pts: &[(f64, f64)]| -> Result<Vec<Option<(f64, f64)>>> {
+        let mut counting = |pts: &[[f64; 3]]| -> Result<Vec<Option<(f64, f64)>>> {
             let r = engine(pts)?;
             failed += r.iter().filter(|x| x.is_none()).count();
             Ok(r)
         };
-        fit::validate(&compiled, domain, samples, vs, &mut counting)?
+        fit::validate_delta(&compiled, domain, samples, vs, &mut counting)?
     };
     let mut conservative = Value::Null;
     if spec.conservative {
@@ -590,7 +762,7 @@ fn fit_one(
             _ => None,
         })
         .unwrap_or(&f.case.member);
-    let definition = format!(
+    let mut definition = format!(
         "family {}: {}; axes {}; ζ {}",
         f.name,
         crate::report::case_summary(member),
@@ -601,6 +773,13 @@ fn fit_one(
             "as plain heights (rectangle)"
         }
     );
+    if let Some([d0, d1]) = domain.delta_range() {
+        definition.push_str(&format!(
+            "; δ from {} to {} inside the fit (C3), not a combination",
+            fmt_num(d0),
+            fmt_num(d1)
+        ));
+    }
     let mut note = if design {
         "design formula: the largest unconservative error found is within the threshold".to_string()
     } else {
@@ -622,7 +801,7 @@ fn fit_one(
     };
     let target_met = details.get("target_met").cloned().unwrap_or(Value::Null);
     let curves = sampled_curves(f, domain, &formula).with_context(ctx)?;
-    let json = json!({
+    let mut json = json!({
         "caution": crate::CAUTION,
         "caveats": CAVEATS,
         "form": spec.form.as_str(),
@@ -648,13 +827,13 @@ fn fit_one(
         "max_unconservative_error": num(b.max_unconservative_error.value),
         "rms_error": num(b.rms_error),
         "where": {
-            "max_rel_error": at(&b.max_rel_error),
-            "max_unconservative_error": at(&b.max_unconservative_error),
+            "max_rel_error": at_d(&b.max_rel_error, mono),
+            "max_unconservative_error": at_d(&b.max_unconservative_error, mono),
             "rms_error": "over the validation grid",
         },
         "unconservative_by_side": {
-            "zeta_positive": b.unconservative_zeta_positive.as_ref().map_or(Value::Null, at),
-            "zeta_negative": b.unconservative_zeta_negative.as_ref().map_or(Value::Null, at),
+            "zeta_positive": b.unconservative_zeta_positive.as_ref().map_or(Value::Null, |a| at_d(a, mono)),
+            "zeta_negative": b.unconservative_zeta_negative.as_ref().map_or(Value::Null, |a| at_d(a, mono)),
         },
         "error_bound_method": "coefficients as printed; fit grid, a validation grid of sub-cell centres offset from it, and a pattern search with the engine around the worst points; each point's finite-element error estimate included (the exact value lies in [fe*(1-e), fe])",
         "points_checked": {"grid": b.points[0], "validation": b.points[1], "search": b.points[2]},
@@ -667,6 +846,13 @@ fn fit_one(
         "formula": serde_json::to_value(&formula).context("cannot encode the formula")?,
         "curves": curves,
     });
+    if let Some([d0, d1]) = domain.delta_range() {
+        json["validity"]["delta_min"] = num(d0);
+        json["validity"]["delta_max"] = num(d1);
+        json["error_bound_method"] = json!(
+            "coefficients as printed; fit grid, a validation grid of sub-cell centres offset from it in kappa, zeta and delta, and a pattern search with the engine around the worst points; each point's finite-element error estimate included (the exact value lies in [fe*(1-e), fe])"
+        );
+    }
     let coef_rows = coefs
         .iter()
         .map(|c| vec![combo.name.clone(), c.name.clone(), c.text.clone()])
@@ -705,97 +891,153 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
     let fits = parse_fits(ls).map_err(anyhow::Error::new)?;
     let origin = ls.origin();
     // Check every family's grid before solving anything.
-    let mut plan: Vec<(&Family, &Vec<FitSpec>, Domain)> = Vec::new();
+    let mut plan: Vec<(&Family, &Vec<FitSpec>, Vec<Domain>)> = Vec::new();
     for (f, specs) in ls.spec.families.iter().zip(&fits) {
         if specs.is_empty() {
             continue;
         }
-        plan.push((f, specs, family_domain(f, &origin)?));
+        let doms = specs
+            .iter()
+            .map(|s| spec_domain(f, s, &origin))
+            .collect::<Result<Vec<_>>>()?;
+        plan.push((f, specs, doms));
     }
     let pool = opts.pool()?;
     let settings = opts.settings();
     let mut cache = opts.open_cache()?;
     let mut files: Vec<(String, Vec<u8>)> = Vec::new();
     let mut summary: Vec<Value> = Vec::new();
-    for (f, specs, domain) in plan {
+    for (f, specs, domains) in plan {
         let rows = family_rows(f, &settings, &pool, &mut cache)?;
-        let combos = combinations(f);
-        let single = combos.len() == 1 && combos[0].labels.is_empty();
+        let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
+        let axis_index = |i: usize| -> Vec<usize> {
+            let mut idx = vec![0; lens.len()];
+            let mut r = i;
+            for (a, ix) in idx.iter_mut().enumerate().rev() {
+                *ix = r % lens[a];
+                r /= lens[a];
+            }
+            idx
+        };
+        let dax = delta_axis(f);
+        let has_zeta = f.axes.iter().any(|a| matches!(a, Axis::Zeta(_)));
         let mut coef_rows: Vec<Vec<Vec<String>>> = vec![Vec::new(); specs.len()];
         let mut extra_rows: Vec<Vec<Vec<String>>> = vec![Vec::new(); specs.len()];
         let mut flags: Vec<Vec<String>> = vec![Vec::new(); specs.len()];
-        for combo in &combos {
-            let mut samples = Vec::new();
-            let mut excluded = 0;
-            for (i, r) in rows.iter().enumerate() {
-                if crate::sweep::combination_of(f, i) != combo.name {
-                    continue;
-                }
-                match (r.status.as_str(), r.mu_cr, r.error_estimate, r.point.zeta) {
-                    ("ok", Some(m), Some(e), Some(z)) => samples.push(Sample {
-                        kappa: r.point.kappa,
-                        zeta: z,
-                        mu_cr: m,
-                        error_estimate: e,
-                    }),
-                    _ => excluded += 1,
-                }
+        // Fits per combination of the axes other than κ and ζ first; then
+        // the c-curves fits that span δ, per combination of the axes other
+        // than κ, ζ and δ.
+        let (plain, spanning): (Vec<usize>, Vec<usize>) =
+            (0..specs.len()).partition(|&k| !spans_delta(f, &specs[k]));
+        let mut groups: Vec<(Vec<crate::sweep::Combination>, Vec<usize>, Option<usize>)> =
+            vec![(combinations(f), plain, None)];
+        if let (Some((da, _, _)), false) = (&dax, spanning.is_empty()) {
+            let skip: Vec<usize> = f
+                .axes
+                .iter()
+                .enumerate()
+                .filter(|(i, a)| matches!(a, Axis::Kappa(_) | Axis::Zeta(_)) || i == da)
+                .map(|(i, _)| i)
+                .collect();
+            groups.push((
+                crate::sweep::combinations_without(f, &skip),
+                spanning,
+                Some(*da),
+            ));
+        }
+        for (combos, members, span) in groups {
+            if members.is_empty() {
+                continue;
             }
-            let idx = combo.index.clone();
-            let mut engine = |pts: &[(f64, f64)]| -> Result<Vec<Option<(f64, f64)>>> {
-                let points = pts
-                    .iter()
-                    .map(|&(k, z)| f.point_at(&idx, Some(k), Some(z)))
-                    .collect();
-                let rows = solve_points(points, &settings, &pool, &mut cache)?;
-                Ok(rows
-                    .into_iter()
-                    .map(|r| match (r.status.as_str(), r.mu_cr, r.error_estimate) {
-                        ("ok", Some(m), Some(e)) => Some((m, e)),
-                        _ => None,
-                    })
-                    .collect())
-            };
-            for (k, spec) in specs.iter().enumerate() {
-                let d = fit_one(
-                    f,
-                    combo,
-                    single,
-                    spec,
-                    &domain,
-                    &samples,
-                    excluded,
-                    &mut engine,
-                )?;
-                if !opts.quiet {
-                    eprintln!(
-                        "{}: max relative error {:.3} %, max unconservative {:.3} %, rms {:.3} %{}{}",
-                        d.file,
-                        100.0 * d.summary["max_rel_error"].as_f64().unwrap_or(0.0),
-                        100.0
-                            * d.summary["max_unconservative_error"]
-                                .as_f64()
-                                .unwrap_or(0.0),
-                        100.0 * d.summary["rms_error"].as_f64().unwrap_or(0.0),
-                        if d.summary["design_formula"] == json!(true) {
-                            ""
-                        } else {
-                            " (NOT a design formula)"
-                        },
-                        if d.summary["target_met"] == json!(false) {
-                            " (fit target not met)"
-                        } else {
-                            ""
-                        }
-                    );
+            let single = combos.len() == 1 && combos[0].labels.is_empty();
+            for combo in &combos {
+                let mut samples = Vec::new();
+                let mut excluded = 0;
+                for (i, r) in rows.iter().enumerate() {
+                    let idx = axis_index(i);
+                    if combo.axes.iter().any(|&a| idx[a] != combo.index[a]) {
+                        continue;
+                    }
+                    let delta = dax.as_ref().map_or(0.0, |(_, p, _)| r.point.paths[*p]);
+                    let zeta = match (r.point.zeta, span.is_some() && !has_zeta) {
+                        (Some(z), true) if z != 0.0 => bail!(
+                            "{origin}: family {}: without a zeta axis a c-curves fit across delta holds at zeta = 0, but the case's loads act at zeta = {z}; put them at the shear centre or add a zeta axis",
+                            f.name
+                        ),
+                        (_, true) => Some(0.0),
+                        (z, false) => z,
+                    };
+                    match (r.status.as_str(), r.mu_cr, r.error_estimate, zeta) {
+                        ("ok", Some(m), Some(e), Some(z)) => samples.push(Sample {
+                            kappa: r.point.kappa,
+                            zeta: z,
+                            delta,
+                            mu_cr: m,
+                            error_estimate: e,
+                        }),
+                        _ => excluded += 1,
+                    }
                 }
-                if d.summary["design_formula"] != json!(true) {
-                    flags[k].push(combo.name.clone());
+                let idx = combo.index.clone();
+                let mut engine = |pts: &[[f64; 3]]| -> Result<Vec<Option<(f64, f64)>>> {
+                    let points = pts
+                        .iter()
+                        .map(|p| match span {
+                            Some(a) => f.point_with(&idx, Some(p[0]), Some(p[1]), &[(a, p[2])]),
+                            None => f.point_at(&idx, Some(p[0]), Some(p[1])),
+                        })
+                        .collect();
+                    let rows = solve_points(points, &settings, &pool, &mut cache)?;
+                    Ok(rows
+                        .into_iter()
+                        .map(|r| match (r.status.as_str(), r.mu_cr, r.error_estimate) {
+                            ("ok", Some(m), Some(e)) => Some((m, e)),
+                            _ => None,
+                        })
+                        .collect())
+                };
+                for &k in &members {
+                    let spec = &specs[k];
+                    let d = fit_one(
+                        f,
+                        combo,
+                        single,
+                        spec,
+                        &domains[k],
+                        &samples,
+                        excluded,
+                        &mut engine,
+                    )?;
+                    if !opts.quiet {
+                        eprintln!(
+                            "{}: max relative error {:.3} %, max unconservative {:.3} %, rms {:.3} %{}{}",
+                            d.file,
+                            100.0 * d.summary["max_rel_error"].as_f64().unwrap_or(0.0),
+                            100.0
+                                * d.summary["max_unconservative_error"]
+                                    .as_f64()
+                                    .unwrap_or(0.0),
+                            100.0 * d.summary["rms_error"].as_f64().unwrap_or(0.0),
+                            if d.summary["design_formula"] == json!(true) {
+                                ""
+                            } else {
+                                " (NOT a design formula)"
+                            },
+                            if d.summary["target_met"] == json!(false) {
+                                " (fit target not met)"
+                            } else {
+                                ""
+                            }
+                        );
+                    }
+                    if d.summary["design_formula"] != json!(true) {
+                        flags[k].push(combo.name.clone());
+                    }
+                    coef_rows[k].extend(d.coef_rows);
+                    extra_rows[k].extend(d.extra_rows);
+                    files.push((d.file, pretty(&d.json)?));
+                    summary.push(d.summary);
                 }
-                coef_rows[k].extend(d.coef_rows);
-                extra_rows[k].extend(d.extra_rows);
-                files.push((d.file, pretty(&d.json)?));
-                summary.push(d.summary);
             }
         }
         for (k, spec) in specs.iter().enumerate() {
@@ -814,15 +1056,21 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 "# base case: {}",
                 crate::report::case_summary(&f.case.member)
             )?;
+            let domain = &domains[k];
+            let mono = domain.delta_range().is_some();
             let z = if domain.band.is_some() {
                 "zeta/kappa"
             } else {
                 "zeta"
             };
             let formula = match spec.form {
+                Form::Surface if spec.basis != surface::Basis::Polynomial => format!(
+                    "mu_cr/mu0 = P/Q, P = sum of c<i><j>*u^i*v^j, Q = 1 + sum of q<i><j>*u^i*v^j (Q = 1 where no q<i><j> is listed: a polynomial), with mu0 = pi*sqrt(1 + kappa^2), u = (ln(kappa) - u_shift)/u_scale, v = ({z} - v_shift)/v_scale"
+                ),
                 Form::Surface => format!(
                     "mu_cr/mu0 = sum of c<i><j>*u^i*v^j with mu0 = pi*sqrt(1 + kappa^2), u = (ln(kappa) - u_shift)/u_scale, v = ({z} - v_shift)/v_scale"
                 ),
+                Form::CCurves if mono => "mu_cr = C1*pi*(sqrt(1 + kappa^2 + w^2) - w), w = C2*zeta + C3*pi*delta/2, with C1 = sum of a_i*u^i, C2 = sum of b_i*u^i (none listed: not determined, zeta not swept, the formula holds at zeta = 0), C3 = sum of c_i*u^i, u = (ln(kappa) - u_shift)/u_scale; delta = (beta_y/L)*sqrt(E*Iz/(G*It)), negative when the larger flange is on top".to_string(),
                 Form::CCurves => "mu_cr = C1*pi*(sqrt(1 + kappa^2 + (C2*zeta)^2) - C2*zeta) with C1 = sum of a_i*u^i, C2 = sum of b_i*u^i, u = (ln(kappa) - u_shift)/u_scale".to_string(),
                 Form::Expression => format!(
                     "{} = {}",
@@ -864,16 +1112,29 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 let mut b: Vec<u8> = Vec::new();
                 writeln!(b, "# {}", crate::CAUTION)?;
                 writeln!(b, "# {CAVEATS}")?;
-                writeln!(
-                    b,
-                    "# family {}: per-kappa least-squares C1, C2 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + (C2*zeta)^2) - C2*zeta), |zeta| < {} left out; c1_at_zeta0 = mu_cr(kappa, 0)/(pi*sqrt(1 + kappa^2)) where the grid holds zeta = 0; errors relative, fit above the engine counted as unconservative, by side of zeta = 0",
-                    f.name,
-                    ccurves::ZETA_MIN
-                )?;
-                writeln!(
-                    b,
-                    "combination,kappa,c1,c2,points,c1_at_zeta0,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative"
-                )?;
+                if mono {
+                    writeln!(
+                        b,
+                        "# family {}: per-kappa least-squares C1, C2, C3 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + w^2) - w), w = C2*zeta + C3*pi*delta/2, across zeta and delta; points with |zeta| < {} and delta = 0 left out; c2 empty where not determined (zeta not swept); c1_at_zeta0 = mu_cr(kappa, 0, 0)/(pi*sqrt(1 + kappa^2)) where the grid holds zeta = delta = 0; errors relative, fit above the engine counted as unconservative, by side of zeta = 0",
+                        f.name,
+                        ccurves::ZETA_MIN
+                    )?;
+                    writeln!(
+                        b,
+                        "combination,kappa,c1,c2,c3,points,c1_at_zeta0,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative"
+                    )?;
+                } else {
+                    writeln!(
+                        b,
+                        "# family {}: per-kappa least-squares C1, C2 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + (C2*zeta)^2) - C2*zeta), |zeta| < {} left out; c1_at_zeta0 = mu_cr(kappa, 0)/(pi*sqrt(1 + kappa^2)) where the grid holds zeta = 0; errors relative, fit above the engine counted as unconservative, by side of zeta = 0",
+                        f.name,
+                        ccurves::ZETA_MIN
+                    )?;
+                    writeln!(
+                        b,
+                        "combination,kappa,c1,c2,points,c1_at_zeta0,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative"
+                    )?;
+                }
                 for r in &extra_rows[k] {
                     writeln!(b, "{}", r.join(","))?;
                 }
@@ -896,6 +1157,8 @@ pub struct Evaluation {
     pub kappa: f64,
     /// ζ.
     pub zeta: f64,
+    /// δ (0 unless given).
+    pub delta: f64,
     /// μcr from the fit.
     pub mu_cr: f64,
     /// μcr/μ0.
@@ -909,6 +1172,20 @@ pub struct Evaluation {
 /// Evaluate a fit file at (κ, ζ), with exactly its printed coefficients.
 /// Outside the validity domain it refuses unless `extrapolate`.
 pub fn eval(path: &Path, kappa: f64, zeta: f64, extrapolate: bool) -> Result<Evaluation> {
+    eval_delta(path, kappa, zeta, 0.0, extrapolate)
+}
+
+/// [`eval`] at (κ, ζ, δ): δ ≠ 0 needs a fit made across δ (c-curves with
+/// C3) and is refused outside its fitted δ range unless `extrapolate`; a
+/// fit without δ refuses δ ≠ 0 always (it holds for δ = 0, or for its
+/// combination's δ, which is named in its file name and validity).
+pub fn eval_delta(
+    path: &Path,
+    kappa: f64,
+    zeta: f64,
+    delta: f64,
+    extrapolate: bool,
+) -> Result<Evaluation> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read the fit file {}", path.display()))?;
     let v: Value = serde_json::from_str(&text)
@@ -921,10 +1198,16 @@ pub fn eval(path: &Path, kappa: f64, zeta: f64, extrapolate: bool) -> Result<Eva
     })?;
     let domain: Domain = serde_json::from_value(v["validity"].clone())
         .with_context(|| format!("{}: no readable `validity`", path.display()))?;
-    if !(kappa.is_finite() && zeta.is_finite()) || kappa < 0.0 {
-        bail!("--kappa must be a number ≥ 0 and --zeta a number");
+    if !(kappa.is_finite() && zeta.is_finite() && delta.is_finite()) || kappa < 0.0 {
+        bail!("--kappa must be a number ≥ 0, --zeta and --delta numbers");
     }
-    let outside = domain.outside(kappa, zeta);
+    if domain.delta_range().is_none() && delta != 0.0 {
+        bail!(
+            "{}: --delta {delta}: this fit was not made across a monosymmetry axis, so it holds for delta = 0 only (or, for a fit per delta value, for the delta in its combination); drop --delta",
+            path.display()
+        );
+    }
+    let outside = domain.outside_delta(kappa, zeta, delta);
     if let (Some(why), false) = (&outside, extrapolate) {
         bail!(
             "{}: {why}; the fit holds only inside its validity domain (pass --extrapolate to evaluate anyway, marked as extrapolated)",
@@ -934,10 +1217,11 @@ pub fn eval(path: &Path, kappa: f64, zeta: f64, extrapolate: bool) -> Result<Eva
     let compiled = formula
         .compile()
         .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
-    let mu_cr = compiled.mu_cr(kappa, zeta);
+    let mu_cr = compiled.mu_cr_delta(kappa, zeta, delta);
     Ok(Evaluation {
         kappa,
         zeta,
+        delta,
         mu_cr,
         mu_ratio: mu_cr / fit::mu0(kappa),
         extrapolated: outside,
@@ -948,6 +1232,14 @@ pub fn eval(path: &Path, kappa: f64, zeta: f64, extrapolate: bool) -> Result<Eva
 impl Evaluation {
     /// The JSON object `eval --json` prints.
     pub fn to_json(&self) -> Value {
+        let mut v = self.to_json_plain();
+        if !self.fit["validity"]["delta_min"].is_null() {
+            v["delta"] = num(self.delta);
+        }
+        v
+    }
+
+    fn to_json_plain(&self) -> Value {
         json!({
             "kappa": num(self.kappa),
             "zeta": num(self.zeta),
@@ -979,8 +1271,13 @@ impl Evaluation {
         if let Some(d) = self.fit["validity"]["family_definition"].as_str() {
             s.push_str(&format!("{d}\n"));
         }
+        let d = if self.fit["validity"]["delta_min"].is_null() {
+            String::new()
+        } else {
+            format!(", delta = {}", fmt_num(self.delta))
+        };
         s.push_str(&format!(
-            "kappa = {}, zeta = {}\nmu_cr = {}\nmu_cr/mu0 = {}\n",
+            "kappa = {}, zeta = {}{d}\nmu_cr = {}\nmu_cr/mu0 = {}\n",
             fmt_num(self.kappa),
             fmt_num(self.zeta),
             fit::print_sig(self.mu_cr, 6),
@@ -1028,27 +1325,38 @@ fn sampled_curves(f: &Family, domain: &Domain, formula: &Formula) -> Result<Valu
             k0 + t * (k1 - k0)
         }
     };
+    // A fit across δ: one curve per ζ and per δ of the family's δ axis.
+    let deltas: Vec<Option<f64>> = match (domain.delta_range(), delta_axis(f)) {
+        (Some(_), Some((_, _, ds))) => ds.into_iter().map(Some).collect(),
+        _ => vec![None],
+    };
     let mut out = Vec::new();
     for (j, z) in zs.iter().enumerate() {
-        let (mut ks, mut mus, mut ratios) = (Vec::new(), Vec::new(), Vec::new());
-        for i in 0..CURVE_POINTS {
-            let k = kappa_at(i);
-            let zeta = match *z {
-                AxisValue::Num(x) => x,
-                AxisValue::KappaTimes(c) => c * k,
-            };
-            if domain.outside(k, zeta).is_some() {
-                continue;
+        for &delta in &deltas {
+            let (mut ks, mut mus, mut ratios) = (Vec::new(), Vec::new(), Vec::new());
+            for i in 0..CURVE_POINTS {
+                let k = kappa_at(i);
+                let zeta = match *z {
+                    AxisValue::Num(x) => x,
+                    AxisValue::KappaTimes(c) => c * k,
+                };
+                if domain.outside(k, zeta).is_some() {
+                    continue;
+                }
+                let mu = compiled.mu_cr_delta(k, zeta, delta.unwrap_or(0.0));
+                if !mu.is_finite() {
+                    continue;
+                }
+                ks.push(num(k));
+                mus.push(num(mu));
+                ratios.push(num(mu / fit::mu0(k)));
             }
-            let mu = compiled.mu_cr(k, zeta);
-            if !mu.is_finite() {
-                continue;
+            let mut c = json!({"zeta_index": j, "kappa": ks, "mu_cr": mus, "mu_ratio": ratios});
+            if let Some(d) = delta {
+                c["delta"] = num(d);
             }
-            ks.push(num(k));
-            mus.push(num(mu));
-            ratios.push(num(mu / fit::mu0(k)));
+            out.push(c);
         }
-        out.push(json!({"zeta_index": j, "kappa": ks, "mu_cr": mus, "mu_ratio": ratios}));
     }
     Ok(Value::Array(out))
 }

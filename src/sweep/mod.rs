@@ -271,7 +271,21 @@ impl Family {
     /// axis value, and restraint heights and ζ values written as multiples
     /// of κ follow it; `zeta` replaces the ζ axis value (a plain height).
     pub fn point_at(&self, idx: &[usize], kappa: Option<f64>, zeta: Option<f64>) -> Point {
+        self.point_with(idx, kappa, zeta, &[])
+    }
+
+    /// [`Family::point_at`] with path axes set off their grid values:
+    /// `paths` holds (axis index in [`Family::axes`], value) pairs, each
+    /// replacing that path axis's value (for fits that span δ).
+    pub fn point_with(
+        &self,
+        idx: &[usize],
+        kappa: Option<f64>,
+        zeta: Option<f64>,
+        paths: &[(usize, f64)],
+    ) -> Point {
         assert_eq!(idx.len(), self.axes.len(), "one index per axis");
+        let path_value = |a: usize, v: f64| paths.iter().find(|p| p.0 == a).map_or(v, |p| p.1);
         let mut variant: Option<&Variant> = None;
         for (a, &ix) in self.axes.iter().zip(idx) {
             if let Axis::Variant(v) = a {
@@ -326,9 +340,9 @@ impl Family {
             }
         }
         // Path axes last among the changes, so an explicit path wins.
-        for (a, &ix) in self.axes.iter().zip(idx) {
+        for (ai, (a, &ix)) in self.axes.iter().zip(idx).enumerate() {
             if let Axis::Path { field, values, .. } = a {
-                path::apply(&mut m, field, values[ix]);
+                path::apply(&mut m, field, path_value(ai, values[ix]));
             }
         }
         // The direction axis sets the direction of every transverse load
@@ -397,8 +411,9 @@ impl Family {
                 .axes
                 .iter()
                 .zip(idx)
-                .filter_map(|(a, &ix)| match a {
-                    Axis::Path { values, .. } => Some(values[ix]),
+                .enumerate()
+                .filter_map(|(ai, (a, &ix))| match a {
+                    Axis::Path { values, .. } => Some(path_value(ai, values[ix])),
                     _ => None,
                 })
                 .collect(),
@@ -728,7 +743,7 @@ pub fn combinations(f: &Family) -> Vec<Combination> {
 
 /// The combinations of a family's axes other than those in `skip`, in grid
 /// order, named like [`combinations`].
-fn combinations_without(f: &Family, skip: &[usize]) -> Vec<Combination> {
+pub fn combinations_without(f: &Family, skip: &[usize]) -> Vec<Combination> {
     let lens: Vec<usize> = f.axes.iter().map(Axis::len).collect();
     let others: Vec<usize> = (0..f.axes.len()).filter(|a| !skip.contains(a)).collect();
     let count: usize = others.iter().map(|&a| lens[a]).product();
