@@ -258,3 +258,44 @@ fn bad_fit_options_get_located_errors_and_no_output() {
     );
     assert!(!d.path().join("x").exists());
 }
+
+#[test]
+fn a_rerun_removes_fit_outputs_its_spec_no_longer_declares() {
+    // A fit dropped from the spec since an earlier run into the same folder
+    // must not survive there (charts and pages read the folder); files of
+    // other families and foreign files stay. Common practice, no source.
+    let dir = tempfile::tempdir().unwrap();
+    let spec = r#"[[family]]
+name = "span"
+kappa = [0.5, 1.0, 2.0]
+zeta = [-0.5, 0.0, 0.5]
+fit = ["c-curves", "surface"]
+[family.case]
+start = { preset = "fork" }
+end = { preset = "fork" }
+[[family.case.load]]
+kind = "uniform"
+"#;
+    let o = fit(dir.path(), spec, "fit", &[]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let out = dir.path().join("fit");
+    assert!(out.join("span.surface.fit.json").is_file());
+    assert!(out.join("span.c-curves.fit.json").is_file());
+    std::fs::write(out.join("other.surface.fit.json"), "{}").unwrap();
+    std::fs::write(out.join("notes.txt"), "kept").unwrap();
+    let o = fit(
+        dir.path(),
+        &spec.replace(r#"fit = ["c-curves", "surface"]"#, r#"fit = ["c-curves"]"#),
+        "fit",
+        &[],
+    );
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    assert!(out.join("span.c-curves.fit.json").is_file());
+    assert!(
+        !out.join("span.surface.fit.json").exists(),
+        "stale surface fit left behind"
+    );
+    assert!(!out.join("span.surface.coefficients.csv").exists());
+    assert!(out.join("other.surface.fit.json").is_file());
+    assert!(out.join("notes.txt").is_file());
+}

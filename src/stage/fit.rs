@@ -1147,6 +1147,39 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
     for (name, bytes) in &files {
         write_atomic(&out.join(name), bytes)?;
     }
+    let families: Vec<&str> = ls.spec.families.iter().map(|f| f.name.as_str()).collect();
+    let written: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).collect();
+    remove_stale(out, &families, &written)?;
+    Ok(())
+}
+
+/// Remove fit outputs of this spec's families that this run did not write
+/// (a fit or combination dropped from the spec since an earlier run into
+/// the same folder), so that charts and pages reading the folder never pick
+/// up a stale fit. Only files named by the fit stage's own patterns
+/// (`<family>.….fit.json`, `.coefficients.csv`, `.per-kappa.csv`) of a
+/// family in `families` are touched; other files in the folder stay.
+fn remove_stale(out: &Path, families: &[&str], written: &[&str]) -> Result<()> {
+    const OURS: [&str; 3] = [".fit.json", ".coefficients.csv", ".per-kappa.csv"];
+    let Ok(rd) = std::fs::read_dir(out) else {
+        return Ok(());
+    };
+    let mut names: Vec<String> = rd
+        .flatten()
+        .filter_map(|e| e.file_name().into_string().ok())
+        .filter(|n| OURS.iter().any(|s| n.ends_with(s)))
+        .collect();
+    names.sort();
+    for n in names {
+        if written.contains(&n.as_str()) {
+            continue;
+        }
+        if families.iter().any(|f| n.starts_with(&format!("{f}."))) {
+            let p = out.join(&n);
+            std::fs::remove_file(&p)
+                .with_context(|| format!("cannot remove the stale fit output {}", p.display()))?;
+        }
+    }
     Ok(())
 }
 
