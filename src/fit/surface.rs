@@ -11,7 +11,10 @@
 //! grid and on held-out interior points of a 5-fold cross-validation (the
 //! grid's edge always trains: the formula is used only inside) both meet the
 //! target wins (else the candidate with the smallest cross-validated
-//! error, flagged as missing the target).
+//! error, flagged as missing the target). Given engine-solved points off
+//! the grid ([`fit_with_validation`], as the fit stage does with its
+//! validation grid), a candidate must meet the target on those too, and
+//! the fallback ranks by the larger of the two held-out errors.
 //!
 //! A rational basis ([`Basis::Rational`]) divides such a polynomial P by
 //!
@@ -159,8 +162,19 @@ pub struct SurfaceFit {
     pub train_max_rel: f64,
     /// Largest held-out relative error of the cross-validation.
     pub cv_max_rel: f64,
-    /// Whether both met the target.
+    /// Largest relative error on the validation samples given to
+    /// [`fit_with_validation`] (0 when none were given).
+    pub validation_max_rel: f64,
+    /// Whether grid, cross-validation and validation all met the target.
     pub target_met: bool,
+}
+
+impl SurfaceFit {
+    /// The figure candidates are ranked by when none meets the target:
+    /// the larger of the held-out and the validation error.
+    fn score(&self) -> f64 {
+        self.cv_max_rel.max(self.validation_max_rel)
+    }
 }
 
 fn row(u: f64, v: f64, terms: &[(usize, usize)]) -> Vec<f64> {
@@ -239,6 +253,9 @@ struct Prep {
     uv: Vec<(f64, f64)>,
     y: Vec<f64>,
     edge: Vec<bool>,
+    /// Validation samples in (u, v) and their μcr/μ0.
+    vuv: Vec<(f64, f64)>,
+    vy: Vec<f64>,
     /// Numerator term sets (tensor flag), sorted as the polynomial tries them.
     cands: Vec<(Vec<(usize, usize)>, bool)>,
     /// Highest powers the grid carries in u and v.
@@ -259,7 +276,12 @@ fn qmax(t: &[(usize, usize)]) -> usize {
     t.iter().map(|x| x.1).max().unwrap_or(0)
 }
 
-fn prepare(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Prep, FitError> {
+fn prepare(
+    samples: &[Sample],
+    validation: &[Sample],
+    domain: &Domain,
+    o: SurfaceOptions,
+) -> Result<Prep, FitError> {
     if samples.iter().any(|s| s.kappa <= 0.0) {
         return Err(FitError::Data(
             "the surface uses ln κ: κ = 0 is not allowed; start the kappa axis at a small positive value such as 0.05".into(),
@@ -274,6 +296,11 @@ fn prepare(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Pre
         .map(|s| (u.apply(s.kappa.ln()), v.apply(domain.z(s.kappa, s.zeta))))
         .collect();
     let y: Vec<f64> = samples.iter().map(|s| s.mu_cr / mu0(s.kappa)).collect();
+    let vuv: Vec<(f64, f64)> = validation
+        .iter()
+        .map(|s| (u.apply(s.kappa.ln()), v.apply(domain.z(s.kappa, s.zeta))))
+        .collect();
+    let vy: Vec<f64> = validation.iter().map(|s| s.mu_cr / mu0(s.kappa)).collect();
     let distinct = |f: &dyn Fn(&(f64, f64)) -> f64| {
         let mut d: Vec<f64> = uv.iter().map(f).collect();
         d.sort_by(f64::total_cmp);
@@ -338,6 +365,8 @@ fn prepare(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Pre
         uv,
         y,
         edge,
+        vuv,
+        vy,
         cands,
         pm,
         qm,
@@ -348,7 +377,22 @@ fn prepare(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Pre
 
 /// Fit the surface to the samples over `domain`.
 pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
-    let prep = prepare(samples, domain, o)?;
+    fit_with_validation(samples, &[], domain, o)
+}
+
+/// [`fit`], with engine-solved `validation` samples off the fit grid that
+/// every candidate must also meet the target on. Held-out interior points
+/// cannot see a candidate that swings between the rows of a coarse grid
+/// (with three ζ rows only the middle one is ever held out); points between
+/// the rows can. When no candidate meets the target, the one with the
+/// smallest larger-of (cross-validated, validation) error is kept.
+pub fn fit_with_validation(
+    samples: &[Sample],
+    validation: &[Sample],
+    domain: &Domain,
+    o: SurfaceOptions,
+) -> Result<SurfaceFit, FitError> {
+    let prep = prepare(samples, validation, domain, o)?;
     match o.basis {
         Basis::Polynomial => polynomial(&prep, o),
         Basis::Rational => rational_fit(&prep, o),
@@ -358,7 +402,7 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
                 return Ok(p);
             }
             match rational_fit(&prep, o) {
-                Ok(r) if r.target_met || r.cv_max_rel < p.cv_max_rel => Ok(r),
+                Ok(r) if r.target_met || r.score() < p.score() => Ok(r),
                 _ => Ok(p),
             }
         }
@@ -376,7 +420,9 @@ fn polynomial(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
         };
         let train = max_rel(&rows, y, &c);
         let cv = cv_max_rel(&rows, y, o.folds, edge);
-        let met = train <= o.target && cv <= o.target;
+        let vrows: Vec<Vec<f64>> = prep.vuv.iter().map(|&(a, b)| row(a, b, &terms)).collect();
+        let val = max_rel(&vrows, &prep.vy, &c);
+        let met = train <= o.target && cv <= o.target && val <= o.target;
         let f = SurfaceFit {
             p,
             q,
@@ -390,12 +436,13 @@ fn polynomial(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> {
             den_coefficients: Vec::new(),
             train_max_rel: train,
             cv_max_rel: cv,
+            validation_max_rel: val,
             target_met: met,
         };
         if met {
             return Ok(f);
         }
-        if best.as_ref().is_none_or(|b| cv < b.cv_max_rel) {
+        if best.as_ref().is_none_or(|b| f.score() < b.score()) {
             best = Some(f);
         }
     }
@@ -444,12 +491,18 @@ fn rational_fit(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> 
         // A candidate already outside the target on its own grid cannot
         // win, and cannot beat a fallback whose held-out error is below
         // its grid error: skip its cross-validation.
-        if train > o.target && best.as_ref().is_some_and(|b| b.cv_max_rel <= train) {
+        if train > o.target && best.as_ref().is_some_and(|b| b.score() <= train) {
             continue;
         }
         let cv = rational::cv_max_rel(&nrows, &drows, y, o.folds, edge);
-        let met = train <= o.target && cv <= o.target;
-        if !met && best.as_ref().is_some_and(|b| cv >= b.cv_max_rel) {
+        let val = (0..prep.vy.len())
+            .map(|i| {
+                let (a, b) = prep.vuv[i];
+                (r.value(&row(a, b, terms), &row(a, b, den)) / prep.vy[i] - 1.0).abs()
+            })
+            .fold(0.0, f64::max);
+        let met = train <= o.target && cv <= o.target && val <= o.target;
+        if !met && best.as_ref().is_some_and(|b| cv.max(val) >= b.score()) {
             continue;
         }
         if q_min_on_domain(prep, den, &r.q) < rational::Q_MIN {
@@ -468,6 +521,7 @@ fn rational_fit(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> 
             den_coefficients: r.q,
             train_max_rel: train,
             cv_max_rel: cv,
+            validation_max_rel: val,
             target_met: met,
         };
         if met {

@@ -35,6 +35,7 @@ use crate::fit::{
 use crate::sweep::{Axis, AxisValue, CAVEATS, Family, combinations, fmt_num};
 use anyhow::{Context, Result, bail};
 use serde_json::{Value, json};
+use std::collections::BTreeMap;
 use std::io::Write;
 use std::path::Path;
 use toml::de::DeValue;
@@ -571,6 +572,28 @@ fn fit_one(
     };
     let mut details = serde_json::Map::new();
     let mut extra_rows: Vec<Vec<String>> = Vec::new();
+    // Engine solves of this fit, remembered by point: the validation grid
+    // is solved once for choosing a surface's terms and for its bound.
+    let mut memo: BTreeMap<[u64; 3], Option<(f64, f64)>> = BTreeMap::new();
+    let key = |p: &[f64; 3]| [p[0].to_bits(), p[1].to_bits(), p[2].to_bits()];
+    let mut solved = |pts: &[[f64; 3]]| -> Result<Vec<Option<(f64, f64)>>> {
+        let mut missing: Vec<[f64; 3]> = Vec::new();
+        for p in pts {
+            if !memo.contains_key(&key(p)) && !missing.iter().any(|q| key(q) == key(p)) {
+                missing.push(*p);
+            }
+        }
+        if !missing.is_empty() {
+            for (p, r) in missing.iter().zip(engine(&missing)?) {
+                memo.insert(key(p), r);
+            }
+        }
+        Ok(pts.iter().map(|p| memo[&key(p)]).collect())
+    };
+    let vs = ValidationSettings {
+        density: spec.validation,
+        ..Default::default()
+    };
     let model = match spec.form {
         Form::Surface => {
             let o = surface::SurfaceOptions {
@@ -579,7 +602,22 @@ fn fit_one(
                 folds: 5,
                 basis: spec.basis,
             };
-            let s = surface::fit(samples, domain, o).with_context(ctx)?;
+            let vpts = fit::validation_points_delta(domain, samples, vs.density);
+            let vsamples: Vec<Sample> = vpts
+                .iter()
+                .zip(solved(&vpts)?)
+                .filter_map(|(p, r)| {
+                    r.map(|(m, e)| Sample {
+                        kappa: p[0],
+                        zeta: p[1],
+                        delta: p[2],
+                        mu_cr: m,
+                        error_estimate: e,
+                    })
+                })
+                .collect();
+            let s =
+                surface::fit_with_validation(samples, &vsamples, domain, o).with_context(ctx)?;
             details.insert("degree_u".into(), json!(s.p));
             details.insert("degree_v".into(), json!(s.q));
             details.insert("terms".into(), json!(s.powers.len()));
@@ -594,6 +632,10 @@ fn fit_one(
             details.insert("train_max_rel_error".into(), num(s.train_max_rel));
             details.insert("cross_validation_max_rel_error".into(), num(s.cv_max_rel));
             details.insert("cross_validation_folds".into(), json!(o.folds));
+            details.insert(
+                "validation_max_rel_error_unrounded".into(),
+                num(s.validation_max_rel),
+            );
             details.insert("target_met".into(), json!(s.target_met));
             if spec.basis != surface::Basis::Polynomial {
                 details.insert("basis_option".into(), json!(spec.basis.as_str()));
@@ -718,16 +760,12 @@ fn fit_one(
         model,
         factor: None,
     };
-    let vs = ValidationSettings {
-        density: spec.validation,
-        ..Default::default()
-    };
     // Cases the engine could not solve are left out of the bound: count them.
     let mut failed = 0usize;
     let mut checks: Vec<Check> = {
         let compiled = formula.compile().with_context(ctx)?;
         let mut counting = |pts: &[[f64; 3]]| -> Result<Vec<Option<(f64, f64)>>> {
-            let r = engine(pts)?;
+            let r = solved(pts)?;
             failed += r.iter().filter(|x| x.is_none()).count();
             Ok(r)
         };
