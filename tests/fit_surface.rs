@@ -230,3 +230,48 @@ fn printed_coefficients_are_what_the_formula_uses() {
     let diff = (m.ratio(0.7, 0.2) - fit.ratio(0.7, 0.2)).abs();
     assert!(diff > 0.0 && diff < 5e-3);
 }
+
+/// Sharply curved across ζ: μcr/μ0 = 1 + 2·ζ⁴ (its quartic swing is
+/// invisible on three rows ζ ∈ {−1, 0, 1}, where a quadratic interpolates
+/// it exactly).
+fn quartic_in_zeta(k: f64, z: f64) -> f64 {
+    mu0(k) * (1.0 + 2.0 * z.powi(4))
+}
+
+#[test]
+fn points_between_the_rows_keep_a_surface_from_claiming_the_target() {
+    // Three ζ rows: the interior row is all cross-validation can hold out,
+    // and a quadratic in ζ meets the target on the grid and under
+    // cross-validation while its interpolating quadratic 1 + 2ζ² misses
+    // the quartic by 30 % at ζ = ±0.75 (2.125 against 1.633, exact algebra).
+    // With engine points between the rows the fit must not claim the target
+    // and must report that error. Common practice, no source.
+    let ks = logspace(0.2, 2.0, 6);
+    let zs = [-1.0, 0.0, 1.0];
+    let s = grid(quartic_in_zeta, &ks, &zs, false, 0.0);
+    let dom = Domain::rectangle([0.2, 2.0], [-1.0, 1.0]);
+    let o = surface::SurfaceOptions::default();
+    let blind = surface::fit(&s, &dom, o).unwrap();
+    assert!(
+        blind.target_met,
+        "grid and cross-validation alone see no error"
+    );
+    let between: Vec<Sample> = fit::validation_points(&dom, &s, 2)
+        .into_iter()
+        .map(|(kappa, zeta)| Sample {
+            kappa,
+            zeta,
+            delta: 0.0,
+            mu_cr: quartic_in_zeta(kappa, zeta),
+            error_estimate: 0.0,
+        })
+        .collect();
+    let guarded = surface::fit_with_validation(&s, &between, &dom, o).unwrap();
+    assert!(!guarded.target_met);
+    // the validation rows sit at ζ = ±0.25, ±0.75 (sub-cell centres)
+    assert!(
+        guarded.validation_max_rel > 0.25,
+        "validation error {}",
+        guarded.validation_max_rel
+    );
+}
