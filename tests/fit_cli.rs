@@ -299,3 +299,42 @@ kind = "uniform"
     assert!(out.join("other.surface.fit.json").is_file());
     assert!(out.join("notes.txt").is_file());
 }
+
+#[test]
+fn zeta_rows_add_engine_rows_between_the_familys_load_heights() {
+    // A surface fitted on five load-height rows of a three-row family:
+    // the two rows between are solved by the engine (two per κ), the grid
+    // check counts all five, and the option is refused on other forms with
+    // its place in the file. Common practice, no source.
+    let dir = tempfile::tempdir().unwrap();
+    let spec = r#"[[family]]
+name = "tip"
+kappa = [0.5, 0.8, 1.2, 2.0]
+zeta = ["-kappa", 0.0, "kappa"]
+fit = [{ form = "surface", zeta_rows = 5 }]
+[family.case]
+start = { preset = "built-in" }
+end = { preset = "free" }
+[[family.case.load]]
+kind = "point"
+at = 1.0
+"#;
+    let o = fit(dir.path(), spec, "fit", &[]);
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let v = json(&dir.path().join("fit/tip.surface.fit.json"));
+    assert_eq!(v["fit"]["zeta_rows"], 5);
+    assert_eq!(v["fit"]["engine_rows_added"], 8);
+    assert_eq!(v["points_checked"]["grid"], 20);
+    let bad = spec.replace(
+        r#"fit = [{ form = "surface", zeta_rows = 5 }]"#,
+        r#"fit = [{ form = "c-curves", zeta_rows = 5 }]"#,
+    );
+    let o = fit(dir.path(), &bad, "fit2", &[]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        err.contains("zeta_rows") && err.contains("spec.toml:5"),
+        "{err}"
+    );
+    assert!(!dir.path().join("fit2").exists());
+}

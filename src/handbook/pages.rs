@@ -942,27 +942,19 @@ fn fit_box(path: &str, v: &Value) -> String {
     let vn = |k: &str| number(val.and_then(|x| x.get(k)));
     let mut dom = Vec::new();
     if let (Some(a), Some(b)) = (vn("kappa_min"), vn("kappa_max")) {
-        dom.push(format!(
-            "{} ≤ κ ≤ {}",
-            crate::sweep::fmt_num(a),
-            crate::sweep::fmt_num(b)
-        ));
+        dom.push(format!("{} ≤ κ ≤ {}", short(a), short(b)));
     }
     if let (Some(a), Some(b)) = (vn("zeta_min"), vn("zeta_max")) {
-        dom.push(format!(
-            "{} ≤ ζ ≤ {}",
-            crate::sweep::fmt_num(a),
-            crate::sweep::fmt_num(b)
-        ));
+        dom.push(format!("{} ≤ ζ ≤ {}", short(a), short(b)));
     }
     if let Some(c) = vn("band") {
-        dom.push(format!("|ζ| ≤ {}·κ", crate::sweep::fmt_num(c)));
+        dom.push(format!("|ζ| ≤ {}·κ", short(c)));
     }
     if let (Some(a), Some(b)) = (vn("delta_min"), vn("delta_max")) {
         dom.push(format!(
             "{} ≤ δ ≤ {} (δ < 0: larger flange on top)",
-            crate::sweep::fmt_num(a),
-            crate::sweep::fmt_num(b)
+            short(a),
+            short(b)
         ));
     }
     // The values of the combination's axes (a fit per δ, per variant, …).
@@ -1184,6 +1176,17 @@ fn rules_table(inp: &Inputs<'_>, entries: &[&Value]) -> String {
     }
     let _ = writeln!(s, ")");
     s
+}
+
+/// A domain bound for reading: six significant digits, trailing zeros
+/// dropped (1.5 × 2.8 prints as 4.2, not 4.199999999999999).
+fn short(x: f64) -> String {
+    let t = crate::fit::print_sig(x, 6);
+    if t.contains('.') && !t.contains('e') {
+        t.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        t
+    }
 }
 
 #[cfg(test)]

@@ -18,6 +18,7 @@
 //! validation = 2                          # validation points per cell and direction
 //! max_degree = 6                          # surface: highest degree in u and in v
 //! basis = "polynomial"                    # surface: "polynomial" (default), "rational" or "auto"
+//! zeta_rows = 11                          # surface: fit on 11 load-height rows (engine fills the rows between)
 //! expression = "a*pi*sqrt(1 + kappa^2) + b*zeta"
 //! quantity = "mu_cr"                      # or "mu_ratio" (μcr/μ0)
 //! parameters = { a = 1.0, b = -0.5 }      # start values
@@ -73,6 +74,7 @@ const FIT_KEYS: &[&str] = &[
     "validation",
     "max_degree",
     "basis",
+    "zeta_rows",
     "expression",
     "quantity",
     "parameters",
@@ -99,6 +101,10 @@ pub struct FitSpec {
     pub max_degree: usize,
     /// Basis family of the surface.
     pub basis: surface::Basis,
+    /// Load-height rows the surface is fitted on (None: the family's own):
+    /// evenly spaced across the family's ζ (or ζ/κ) range at every κ of
+    /// the grid, the rows between the family's solved by the engine.
+    pub zeta_rows: Option<usize>,
     /// Expression source (expression form).
     pub expression: Option<String>,
     /// What the expression gives.
@@ -120,6 +126,7 @@ impl FitSpec {
             validation: 2,
             max_degree: 6,
             basis: surface::Basis::Polynomial,
+            zeta_rows: None,
             expression: None,
             quantity: Quantity::MuCr,
             parameters: Vec::new(),
@@ -273,6 +280,15 @@ fn fit_table(src: &Source<'_>, t: &Tab<'_>) -> Result<FitSpec, CaseError> {
     s.digits = int("digits", 2, 8, s.digits)?;
     s.validation = int("validation", 1, 8, s.validation)?;
     s.max_degree = int("max_degree", 0, 10, s.max_degree)?;
+    if t.get("zeta_rows").is_some() {
+        if s.form != Form::Surface {
+            return Err(t.err_at(
+                "zeta_rows",
+                "`zeta_rows` belongs to form = \"surface\" only",
+            ));
+        }
+        s.zeta_rows = Some(int("zeta_rows", 2, 41, 0)?);
+    }
     if let Some(v) = t.get("conservative") {
         match v.v {
             DeValue::Boolean(b) => s.conservative = *b,
@@ -594,6 +610,31 @@ fn fit_one(
         density: spec.validation,
         ..Default::default()
     };
+    // The fit's own grid: the family's, plus engine rows when asked.
+    let mut fit_samples: Vec<Sample> = samples.to_vec();
+    if let (Form::Surface, Some(n)) = (spec.form, spec.zeta_rows) {
+        let pts = added_rows(domain, &fit_samples, n);
+        details.insert("zeta_rows".into(), json!(n));
+        details.insert("engine_rows_added".into(), json!(pts.len()));
+        for (p, r) in pts.iter().zip(solved(&pts)?) {
+            match r {
+                Some((m, e)) => fit_samples.push(Sample {
+                    kappa: p[0],
+                    zeta: p[1],
+                    delta: p[2],
+                    mu_cr: m,
+                    error_estimate: e,
+                }),
+                None => bail!(
+                    "{}: the engine did not converge at the added load-height row kappa = {}, zeta = {}",
+                    ctx(),
+                    p[0],
+                    p[1]
+                ),
+            }
+        }
+    }
+    let samples: &[Sample] = &fit_samples;
     let model = match spec.form {
         Form::Surface => {
             let o = surface::SurfaceOptions {
@@ -1189,6 +1230,40 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
     let written: Vec<&str> = files.iter().map(|(n, _)| n.as_str()).collect();
     remove_stale(out, &families, &written)?;
     Ok(())
+}
+
+/// Points of the `n` load-height rows of a surface fit that the family's
+/// grid lacks: at every κ of the samples, n values of the fit variable z
+/// (ζ, or ζ/κ on a band) evenly spaced over the samples' z range; a row
+/// within 1e-9 of one the samples hold is theirs.
+fn added_rows(domain: &Domain, samples: &[Sample], n: usize) -> Vec<[f64; 3]> {
+    let mut ks: Vec<f64> = samples.iter().map(|s| s.kappa).collect();
+    ks.sort_by(f64::total_cmp);
+    ks.dedup_by(|a, b| (*a - *b).abs() <= 1e-12 * b.abs());
+    let zs: Vec<f64> = samples.iter().map(|s| domain.z(s.kappa, s.zeta)).collect();
+    let (z0, z1) = zs
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &z| {
+            (a.min(z), b.max(z))
+        });
+    let delta = samples.first().map_or(0.0, |s| s.delta);
+    let mut out = Vec::new();
+    for &k in &ks {
+        for r in 0..n {
+            let z = if n > 1 {
+                z0 + (z1 - z0) * r as f64 / (n - 1) as f64
+            } else {
+                z0
+            };
+            let held = samples
+                .iter()
+                .any(|s| s.kappa == k && (domain.z(s.kappa, s.zeta) - z).abs() <= 1e-9);
+            if !held {
+                out.push([k, domain.zeta(k, z), delta]);
+            }
+        }
+    }
+    out
 }
 
 /// Remove fit outputs of this spec's families that this run did not write
