@@ -424,7 +424,7 @@ fn spec_domain(f: &Family, spec: &FitSpec, spec_origin: &str) -> Result<Domain> 
     Ok(d.with_delta([d0, d1]))
 }
 
-/// κ range of a family's grid (checked as [`family_domain`] checks it).
+/// κ range of a family's grid, checked for fits (also the κ part of [`family_domain`]).
 fn family_domain_kappa(f: &Family, spec_origin: &str) -> Result<(f64, f64)> {
     let Some(ks) = f.axes.iter().find_map(|a| match a {
         Axis::Kappa(v) => Some(v.clone()),
@@ -458,39 +458,18 @@ fn family_domain_kappa(f: &Family, spec_origin: &str) -> Result<(f64, f64)> {
 }
 
 fn family_domain(f: &Family, spec_origin: &str) -> Result<Domain> {
-    let ks = f.axes.iter().find_map(|a| match a {
-        Axis::Kappa(v) => Some(v.clone()),
-        _ => None,
-    });
+    let has_kappa = f.axes.iter().any(|a| matches!(a, Axis::Kappa(_)));
     let zs = f.axes.iter().find_map(|a| match a {
         Axis::Zeta(v) => Some(v.clone()),
         _ => None,
     });
-    let (Some(ks), Some(zs)) = (ks, zs) else {
+    let (true, Some(zs)) = (has_kappa, zs) else {
         bail!(
             "{spec_origin}: family {}: fits need a kappa axis and a zeta axis; add `kappa = [...]` and `zeta = [...]` to the family (or drop `fit`)",
             f.name
         );
     };
-    let (k0, k1) = (
-        ks.iter().copied().fold(f64::INFINITY, f64::min),
-        ks.iter().copied().fold(f64::NEG_INFINITY, f64::max),
-    );
-    let mut distinct = ks.clone();
-    distinct.sort_by(f64::total_cmp);
-    distinct.dedup();
-    if distinct.len() < 3 {
-        bail!(
-            "{spec_origin}: family {}: a fit needs at least 3 kappa values; add values to the kappa axis",
-            f.name
-        );
-    }
-    if k0 <= 0.0 {
-        bail!(
-            "{spec_origin}: family {}: fits work in ln kappa, so kappa = 0 is not allowed; start the kappa axis at a small positive value such as 0.05",
-            f.name
-        );
-    }
+    let (k0, k1) = family_domain_kappa(f, spec_origin)?;
     // ζ = 0 lies on every band (0·κ) as well as in every rectangle.
     let band = zs.iter().any(|z| matches!(z, AxisValue::KappaTimes(_)));
     let nums: Vec<f64> = zs
