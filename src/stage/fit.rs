@@ -1245,6 +1245,18 @@ fn added_rows(domain: &Domain, samples: &[Sample], n: usize) -> Vec<[f64; 3]> {
     out
 }
 
+/// An error bound for reading: three significant digits, rounded up (so
+/// that a bound never prints smaller than measured; 0.00312 → 0.00313).
+fn up3(x: f64) -> String {
+    if !(x > 0.0) || !x.is_finite() {
+        return "0".into();
+    }
+    let e = x.log10().floor() as i32 - 2;
+    let q = 10f64.powi(e);
+    let r = (x / q * (1.0 - 1e-12)).ceil() * q;
+    fit::print_sig(r, 3)
+}
+
 /// Remove fit outputs of this spec's families that this run did not write
 /// (a fit or combination dropped from the spec since an earlier run into
 /// the same folder), so that charts and pages reading the folder never pick
@@ -1409,9 +1421,9 @@ impl Evaluation {
             fit::print_sig(self.mu_ratio, 6)
         ));
         s.push_str(&format!(
-            "measured error bound of the fit: {:.2} % (largest unconservative {:.2} %)\n",
-            pct("max_rel_error"),
-            pct("max_unconservative_error")
+            "measured error bound of the fit: {} % (largest unconservative {} %)\n",
+            up3(pct("max_rel_error")),
+            up3(pct("max_unconservative_error"))
         ));
         if self.fit["design_formula"] != json!(true) {
             s.push_str("NOT A DESIGN FORMULA: its unconservative error exceeds the threshold\n");
