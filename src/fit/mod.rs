@@ -531,7 +531,9 @@ pub struct Bounds {
 fn worst(checks: &[Check], f: impl Fn(&Check) -> f64) -> Option<At> {
     let mut best: Option<At> = None;
     for c in checks {
+        // A formula value that is not a number is an unbounded error.
         let v = f(c);
+        let v = if v.is_nan() { f64::INFINITY } else { v };
         if best.is_none_or(|b| v > b.value) {
             best = Some(At {
                 value: v,
@@ -628,10 +630,13 @@ fn sorted_unique(mut v: Vec<f64>) -> Vec<f64> {
 }
 
 /// Validation points: centres of `density`² sub-cells of every fit-grid
-/// cell in (ln κ, z), so none coincides with a grid point.
+/// cell in (ln κ, z), and the same sub-cell positions along the domain's
+/// edges (κ or z at an end of its range), so none coincides with a grid
+/// point and peaks on the edges are seen.
 ///
 /// ```text
 /// ln κ = ln κ_a + (k + ½)/m · (ln κ_b − ln κ_a),   z = z_c + (l + ½)/m · (z_d − z_c),   k, l = 0 … m−1
+/// plus (ln κ_min or ln κ_max, z sub-centre) and (ln κ sub-centre, z_min or z_max)
 /// ```
 pub fn validation_points(domain: &Domain, samples: &[Sample], density: usize) -> Vec<(f64, f64)> {
     validation_points_delta(domain, samples, density)
@@ -665,11 +670,28 @@ pub fn validation_points_delta(
         }
         o
     };
-    let dsub = subs(&ds);
-    for lk in subs(&ks) {
+    // Each direction: the sub-cell centres, then the two ends of the range
+    // (flagged), so that points also lie on the domain's edges and faces
+    // between grid nodes; a point whose every swept coordinate is an end is
+    // a grid corner and left out.
+    let lines = |v: &[f64]| -> Vec<(f64, bool)> {
+        let mut o: Vec<(f64, bool)> = subs(v).into_iter().map(|x| (x, false)).collect();
+        if v.len() >= 2 {
+            o.push((v[0], true));
+            o.push((v[v.len() - 1], true));
+        }
+        o
+    };
+    let swept = |v: &[f64]| v.len() >= 2;
+    let (lk_lines, z_lines, d_lines) = (lines(&ks), lines(&zs), lines(&ds));
+    for &(lk, ek) in &lk_lines {
         let kappa = lk.exp();
-        for z in subs(&zs) {
-            for &d in &dsub {
+        for &(z, ez) in &z_lines {
+            for &(d, ed) in &d_lines {
+                let corner = (ek || !swept(&ks)) && (ez || !swept(&zs)) && (ed || !swept(&ds));
+                if corner && (ek || ez || ed) {
+                    continue;
+                }
                 out.push([kappa, domain.zeta(kappa, z), d]);
             }
         }
@@ -780,8 +802,10 @@ pub fn validate_delta<E>(
         let z = domain.z(start.kappa, start.zeta);
         let d = start.delta;
         let (hk, hz, hd) = (spacing(&ks, lk), spacing(&zs, z), spacing(&ds, d));
-        let lo = [(lk - hk).max(lk0), (z - hz).max(z0), (d - hd).max(d0)];
-        let hi = [(lk + hk).min(lk1), (z + hz).min(z1), (d + hd).min(d1)];
+        // The climb may go anywhere in the domain, its edges included (a
+        // box around the start stopped short of peaks on the edge).
+        let lo = [lk0, z0, d0];
+        let hi = [lk1, z1, d1];
         let mut cur = start;
         let mut pos = [lk, z, d];
         let mut step = [hk / 4.0, hz / 4.0, hd / 4.0];
@@ -854,9 +878,11 @@ pub fn validate_delta<E>(
 /// s = min_i  fe_i·(1 − e_i) / fit_i   (capped at 1, rounded down)
 /// ```
 pub fn safe_factor(checks: &[Check], digits: usize) -> Coef {
+    // A point where the formula is not a finite number admits no factor.
     let s = checks
         .iter()
         .map(|c| c.fe * (1.0 - c.error_estimate) / c.fit)
+        .map(|r| if r.is_nan() { 0.0 } else { r })
         .fold(1.0f64, f64::min);
     if s >= 1.0 {
         Coef::new("factor", 1.0, digits)
