@@ -611,7 +611,7 @@ impl Default for ValidationSettings {
         ValidationSettings {
             density: 2,
             search_starts: 3,
-            search_halvings: 4,
+            search_halvings: 8,
         }
     }
 }
@@ -796,6 +796,11 @@ pub fn validate_delta<E>(
             }
         }
     }
+    let key = |p: &[f64; 3]| [p[0].to_bits(), p[1].to_bits(), p[2].to_bits()];
+    let mut seen: std::collections::BTreeMap<[u64; 3], Option<Check>> = checks
+        .iter()
+        .map(|c| (key(&[c.kappa, c.zeta, c.delta]), Some(*c)))
+        .collect();
     for (start, oi) in starts {
         let obj = objectives[oi];
         let lk = start.kappa.ln();
@@ -839,25 +844,43 @@ pub fn validate_delta<E>(
                     [kappa, domain.zeta(kappa, p[1]), p[2]]
                 })
                 .collect();
-            let solved = engine(&pts)?;
+            // Points checked before (by this or another climb) are not
+            // solved or counted again.
+            let fresh: Vec<[f64; 3]> = pts
+                .iter()
+                .filter(|p| !seen.contains_key(&key(p)))
+                .copied()
+                .collect();
+            let mut solved = engine(&fresh)?.into_iter();
             let mut moved = false;
-            for ((&[kappa, zeta, delta], r), p) in pts.iter().zip(solved).zip(&cand) {
-                if let Some((fe, e)) = r {
-                    let c = Check {
-                        kappa,
-                        zeta,
-                        delta,
-                        fe,
-                        error_estimate: e,
-                        fit: f.mu_cr_delta(kappa, zeta, delta),
-                        origin: Origin::Search,
-                    };
-                    checks.push(c);
-                    if obj(&c) > obj(&cur) {
-                        cur = c;
-                        pos = *p;
-                        moved = true;
+            for (q, p) in pts.iter().zip(&cand) {
+                let c = match seen.get(&key(q)) {
+                    Some(c) => *c,
+                    None => {
+                        let r = solved.next().flatten();
+                        let [kappa, zeta, delta] = *q;
+                        let c = r.map(|(fe, e)| Check {
+                            kappa,
+                            zeta,
+                            delta,
+                            fe,
+                            error_estimate: e,
+                            fit: f.mu_cr_delta(kappa, zeta, delta),
+                            origin: Origin::Search,
+                        });
+                        seen.insert(key(q), c);
+                        if let Some(c) = c {
+                            checks.push(c);
+                        }
+                        c
                     }
+                };
+                if let Some(c) = c
+                    && obj(&c) > obj(&cur)
+                {
+                    cur = c;
+                    pos = *p;
+                    moved = true;
                 }
             }
             if !moved {

@@ -127,9 +127,10 @@ impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
 
 /// Fit P/Q to the values `y` (numerator rows `n`, denominator rows `d`, one
 /// per point): Loeb's linearised solve, Sanathanan–Koerner reweighting,
-/// then Levenberg–Marquardt on the relative residual (kept only when it
-/// lowers the largest relative error and keeps Q ≥ [`Q_MIN`] at every
-/// point). None when the points cannot determine the coefficients or Q
+/// then Levenberg–Marquardt on the relative residual (kept unless it is
+/// unusable — non-finite, or Q below [`Q_MIN`] at a point — or worse than
+/// the linearised solution in both the sum of squares and the largest
+/// relative error). None when the points cannot determine the coefficients or Q
 /// falls below [`Q_MIN`] at a point.
 pub fn fit(n: &[Vec<f64>], d: &[Vec<f64>], y: &[f64]) -> Option<Rational> {
     let rows = y.len();

@@ -14,7 +14,7 @@
 //! error, flagged as missing the target). Given engine-solved points off
 //! the grid ([`fit_with_validation`], as the fit stage does with its
 //! validation grid), a candidate must meet the target on those too, and
-//! the fallback ranks by the larger of the two held-out errors.
+//! the fallback ranks by the largest of the grid and the two held-out errors.
 //!
 //! A rational basis ([`Basis::Rational`]) divides such a polynomial P by
 //!
@@ -171,9 +171,12 @@ pub struct SurfaceFit {
 
 impl SurfaceFit {
     /// The figure candidates are ranked by when none meets the target:
-    /// the larger of the held-out and the validation error.
+    /// the largest of the grid, held-out and validation errors (so a
+    /// candidate's grid error alone can rule it out).
     fn score(&self) -> f64 {
-        self.cv_max_rel.max(self.validation_max_rel)
+        self.train_max_rel
+            .max(self.cv_max_rel)
+            .max(self.validation_max_rel)
     }
 }
 
@@ -385,7 +388,7 @@ pub fn fit(samples: &[Sample], domain: &Domain, o: SurfaceOptions) -> Result<Sur
 /// cannot see a candidate that swings between the rows of a coarse grid
 /// (with three ζ rows only the middle one is ever held out); points between
 /// the rows can. When no candidate meets the target, the one with the
-/// smallest larger-of (cross-validated, validation) error is kept.
+/// smallest largest-of (grid, cross-validated, validation) error is kept.
 pub fn fit_with_validation(
     samples: &[Sample],
     validation: &[Sample],
@@ -489,8 +492,8 @@ fn rational_fit(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> 
             .map(|i| (r.value(&nrows[i], &drows[i]) / y[i] - 1.0).abs())
             .fold(0.0, f64::max);
         // A candidate already outside the target on its own grid cannot
-        // win, and cannot beat a fallback whose held-out error is below
-        // its grid error: skip its cross-validation.
+        // win, and its score is at least its grid error: skip its
+        // cross-validation when the fallback already scores that low.
         if train > o.target && best.as_ref().is_some_and(|b| b.score() <= train) {
             continue;
         }
@@ -502,7 +505,11 @@ fn rational_fit(prep: &Prep, o: SurfaceOptions) -> Result<SurfaceFit, FitError> 
             })
             .fold(0.0, f64::max);
         let met = train <= o.target && cv <= o.target && val <= o.target;
-        if !met && best.as_ref().is_some_and(|b| cv.max(val) >= b.score()) {
+        if !met
+            && best
+                .as_ref()
+                .is_some_and(|b| train.max(cv).max(val) >= b.score())
+        {
             continue;
         }
         if q_min_on_domain(prep, den, &r.q) < rational::Q_MIN {
