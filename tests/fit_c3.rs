@@ -250,3 +250,57 @@ kind = "uniform"
     let v = json(&p);
     assert!(v["validity"].get("delta_min").is_none());
 }
+
+#[test]
+fn eval_takes_the_delta_of_a_fit_made_per_delta_value() {
+    // A surface fitted per δ value holds at its combination's δ: eval takes
+    // that δ (or the default 0, meaning the same) with the same result and
+    // refuses any other, naming the fit's own δ. Common practice, no source.
+    let spec = r#"[[family]]
+name = "per-delta"
+kappa = [0.4, 0.7, 1.0, 1.5]
+zeta = [-0.3, 0.0, 0.3]
+fit = [{ form = "surface", max_degree = 2 }]
+[[family.axis]]
+path = "delta"
+values = [0.0, 0.2]
+[family.case]
+start = { preset = "fork" }
+end = { preset = "fork" }
+[[family.case.load]]
+kind = "uniform"
+"#;
+    let d = tempfile::tempdir().unwrap();
+    fit_spec(d.path(), spec);
+    let f = d.path().join("fit/per-delta.surface.0.2.fit.json");
+    assert!(
+        f.is_file(),
+        "{:?}",
+        std::fs::read_dir(d.path().join("fit"))
+            .unwrap()
+            .collect::<Vec<_>>()
+    );
+    let fs = f.to_str().unwrap();
+    let run = |args: &[&str]| {
+        Command::new(env!("CARGO_BIN_EXE_ltb-atlas"))
+            .args(args)
+            .output()
+            .unwrap()
+    };
+    let mu = |extra: &[&str]| -> f64 {
+        let mut a = vec!["eval", fs, "--kappa", "0.8", "--zeta", "0.1", "--json"];
+        a.extend_from_slice(extra);
+        let o = run(&a);
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        serde_json::from_slice::<Value>(&o.stdout).unwrap()["mu_cr"]
+            .as_f64()
+            .unwrap()
+    };
+    assert_eq!(mu(&["--delta", "0.2"]), mu(&[]));
+    let o = run(&[
+        "eval", fs, "--kappa", "0.8", "--zeta", "0.1", "--delta", "0.1",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(err.contains("delta = 0.2"), "{err}");
+}

@@ -1322,10 +1322,10 @@ pub fn eval(path: &Path, kappa: f64, zeta: f64, extrapolate: bool) -> Result<Eva
     eval_delta(path, kappa, zeta, 0.0, extrapolate)
 }
 
-/// [`eval`] at (κ, ζ, δ): δ ≠ 0 needs a fit made across δ (c-curves with
-/// C3) and is refused outside its fitted δ range unless `extrapolate`; a
-/// fit without δ refuses δ ≠ 0 always (it holds for δ = 0, or for its
-/// combination's δ, which is named in its file name and validity).
+/// [`eval`] at (κ, ζ, δ): a fit made across δ (c-curves with C3) takes
+/// any δ in its fitted range (outside it only with `extrapolate`); a fit
+/// made per δ value takes its combination's δ (or the default 0, meaning
+/// the same), and a fit without δ only δ = 0.
 pub fn eval_delta(
     path: &Path,
     kappa: f64,
@@ -1348,13 +1348,30 @@ pub fn eval_delta(
     if !(kappa.is_finite() && zeta.is_finite() && delta.is_finite()) || kappa < 0.0 {
         bail!("--kappa must be a number ≥ 0, --zeta and --delta numbers");
     }
-    if domain.delta_range().is_none() && delta != 0.0 {
-        bail!(
-            "{}: --delta {delta}: this fit was not made across a monosymmetry axis, so it holds for delta = 0 only (or, for a fit per delta value, for the delta in its combination); drop --delta",
-            path.display()
-        );
+    // A fit not made across δ holds at one δ: its combination's (a fit per
+    // δ value) or 0. Either spelling of that δ is accepted; the formula does
+    // not take δ then.
+    let mut delta_in_formula = delta;
+    if domain.delta_range().is_none() {
+        let own: Option<f64> = v["validity"]["combination_labels"]["delta"]
+            .as_str()
+            .and_then(|t| t.trim().parse().ok());
+        let at = own.unwrap_or(0.0);
+        if delta != 0.0 && (delta - at).abs() > 1e-12 * at.abs().max(1.0) {
+            match own {
+                Some(d) => bail!(
+                    "{}: --delta {delta}: this fit is for delta = {d} (its combination), not made across a monosymmetry axis; pass --delta {d} or drop --delta",
+                    path.display()
+                ),
+                None => bail!(
+                    "{}: --delta {delta}: this fit was not made across a monosymmetry axis, so it holds for delta = 0 only; drop --delta",
+                    path.display()
+                ),
+            }
+        }
+        delta_in_formula = 0.0;
     }
-    let outside = domain.outside_delta(kappa, zeta, delta);
+    let outside = domain.outside_delta(kappa, zeta, delta_in_formula);
     if let (Some(why), false) = (&outside, extrapolate) {
         bail!(
             "{}: {why}; the fit holds only inside its validity domain (pass --extrapolate to evaluate anyway, marked as extrapolated)",
@@ -1364,7 +1381,7 @@ pub fn eval_delta(
     let compiled = formula
         .compile()
         .map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
-    let mu_cr = compiled.mu_cr_delta(kappa, zeta, delta);
+    let mu_cr = compiled.mu_cr_delta(kappa, zeta, delta_in_formula);
     Ok(Evaluation {
         kappa,
         zeta,
