@@ -304,3 +304,30 @@ kind = "uniform"
     let err = String::from_utf8_lossy(&o.stderr);
     assert!(err.contains("delta = 0.2"), "{err}");
 }
+
+#[test]
+fn per_kappa_table_of_a_delta_only_family_reports_its_zeta_zero_points() {
+    // End moments sweep no ζ: every point used sits at ζ = 0 (δ ≠ 0), so the
+    // by-side columns alone would say nothing; the ζ = 0 column carries
+    // them (common practice, no source).
+    let d = tempfile::tempdir().unwrap();
+    fit_spec(d.path(), UNIFORM_MOMENT);
+    let t =
+        std::fs::read_to_string(d.path().join("fit/mono-moment.c-curves.per-kappa.csv")).unwrap();
+    let mut rows = t.lines().filter(|l| !l.starts_with('#'));
+    let header: Vec<&str> = rows.next().unwrap().split(',').collect();
+    let col = header
+        .iter()
+        .position(|h| *h == "unconservative_zeta_zero")
+        .expect("a zeta = 0 column");
+    let cells: Vec<String> = rows
+        .map(|r| r.split(',').nth(col).unwrap().to_string())
+        .collect();
+    assert_eq!(cells.len(), 8);
+    assert!(
+        cells.iter().any(|c| c.parse::<f64>().unwrap() > 0.0),
+        "{cells:?}"
+    );
+    let v = json(&d.path().join("fit/mono-moment.c-curves.down.fit.json"));
+    assert!(v["fit"]["per_kappa"][0]["unconservative_zeta_zero"].is_number());
+}

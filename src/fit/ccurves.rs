@@ -113,6 +113,9 @@ pub struct PerKappa {
     pub unconservative_zeta_positive: f64,
     /// Largest unconservative error with ζ < 0.
     pub unconservative_zeta_negative: f64,
+    /// Largest unconservative error at ζ = 0 (only a fit across δ uses
+    /// such points, those with δ ≠ 0; 0 otherwise).
+    pub unconservative_zeta_zero: f64,
 }
 
 fn c1_and_ss(c2: f64, kappa: f64, pts: &[(f64, f64)]) -> (f64, f64) {
@@ -185,6 +188,7 @@ pub fn fit_at(kappa: f64, pts: &[(f64, f64)]) -> Result<PerKappa, FitError> {
         max_rel: 0.0,
         unconservative_zeta_positive: 0.0,
         unconservative_zeta_negative: 0.0,
+        unconservative_zeta_zero: 0.0,
     };
     for &(z, mu) in &used {
         let e = three_factor(c1, c2, kappa, z) / mu - 1.0;
@@ -348,6 +352,7 @@ pub fn fit_at_delta(kappa: f64, pts: &[(f64, f64, f64)]) -> Result<PerKappa, Fit
         max_rel: 0.0,
         unconservative_zeta_positive: 0.0,
         unconservative_zeta_negative: 0.0,
+        unconservative_zeta_zero: 0.0,
     };
     for &(z, d, mu) in &used {
         let e = three_factor_mono(c1, c2, c3, kappa, z, d) / mu - 1.0;
@@ -356,6 +361,8 @@ pub fn fit_at_delta(kappa: f64, pts: &[(f64, f64, f64)]) -> Result<PerKappa, Fit
             pk.unconservative_zeta_positive = pk.unconservative_zeta_positive.max(e);
         } else if z < 0.0 {
             pk.unconservative_zeta_negative = pk.unconservative_zeta_negative.max(e);
+        } else {
+            pk.unconservative_zeta_zero = pk.unconservative_zeta_zero.max(e);
         }
     }
     Ok(pk)

@@ -724,6 +724,7 @@ fn fit_one(
                             v["c2"] = Value::Null;
                         }
                         v["c3"] = p.c3.map_or(Value::Null, num);
+                        v["unconservative_zeta_zero"] = num(p.unconservative_zeta_zero);
                     }
                     v
                 })
@@ -754,6 +755,9 @@ fn fit_one(
                     fit::print_sig(p.unconservative_zeta_positive.max(0.0), 3),
                     fit::print_sig(p.unconservative_zeta_negative.max(0.0), 3),
                 ]);
+                if mono {
+                    row.push(fit::print_sig(p.unconservative_zeta_zero.max(0.0), 3));
+                }
             }
             details.insert("per_kappa".into(), Value::Array(per));
             details.insert("zeta_excluded_below".into(), num(ccurves::ZETA_MIN));
@@ -1183,13 +1187,13 @@ pub fn run(ls: &LoadedSpec, out: &Path, opts: &Options) -> Result<()> {
                 if mono {
                     writeln!(
                         b,
-                        "# family {}: per-kappa least-squares C1, C2, C3 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + w^2) - w), w = C2*zeta + C3*pi*delta/2, across zeta and delta; points with |zeta| < {} and delta = 0 left out; c2 empty where not determined (zeta not swept); c1_at_zeta0 = mu_cr(kappa, 0, 0)/(pi*sqrt(1 + kappa^2)) where the grid holds zeta = delta = 0; errors relative, fit above the engine counted as unconservative, by side of zeta = 0",
+                        "# family {}: per-kappa least-squares C1, C2, C3 of mu_cr = C1*pi*(sqrt(1 + kappa^2 + w^2) - w), w = C2*zeta + C3*pi*delta/2, across zeta and delta; points with |zeta| < {} and delta = 0 left out; c2 empty where not determined (zeta not swept); c1_at_zeta0 = mu_cr(kappa, 0, 0)/(pi*sqrt(1 + kappa^2)) where the grid holds zeta = delta = 0; errors relative, fit above the engine counted as unconservative, by side of zeta = 0 and at zeta = 0 (points with delta != 0)",
                         f.name,
                         ccurves::ZETA_MIN
                     )?;
                     writeln!(
                         b,
-                        "combination,kappa,c1,c2,c3,points,c1_at_zeta0,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative"
+                        "combination,kappa,c1,c2,c3,points,c1_at_zeta0,max_rel_error,unconservative_zeta_positive,unconservative_zeta_negative,unconservative_zeta_zero"
                     )?;
                 } else {
                     writeln!(
