@@ -55,3 +55,29 @@ fn too_few_load_heights_are_refused() {
     let e = ccurves::fit_at(0.5, &pts).unwrap_err().to_string();
     assert!(e.contains("kappa = 0.5") && e.contains("zeta"), "{e}");
 }
+
+#[test]
+fn a_coefficient_at_the_edge_of_the_scan_is_flagged() {
+    // Values made by the three-factor form itself (domain notes) with C2 = 8,
+    // outside the scanned [-6, 6]: the per-kappa fit must say so; with
+    // C2 = 0.45 it has nothing to say.
+    use ltb_atlas::fit::ccurves::fit_at;
+    let kappa = 0.5;
+    let zs = [-0.4, -0.2, 0.2, 0.4];
+    for (c2, flagged) in [(8.0, true), (0.45, false)] {
+        let pts: Vec<(f64, f64)> = zs
+            .iter()
+            .map(|&z| (z, three_factor(1.1, c2, kappa, z)))
+            .collect();
+        let pk = fit_at(kappa, &pts).unwrap();
+        assert_eq!(
+            !pk.search_notes.is_empty(),
+            flagged,
+            "C2 = {c2}: {:?}",
+            pk.search_notes
+        );
+        if flagged {
+            assert!(pk.search_notes[0].contains("C2"), "{:?}", pk.search_notes);
+        }
+    }
+}

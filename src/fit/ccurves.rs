@@ -90,7 +90,7 @@ pub fn three_factor_mono(c1: f64, c2: f64, c3: f64, kappa: f64, zeta: f64, delta
 }
 
 /// The per-κ fit.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PerKappa {
     /// κ.
     pub kappa: f64,
@@ -116,6 +116,19 @@ pub struct PerKappa {
     /// Largest unconservative error at ζ = 0 (only a fit across δ uses
     /// such points, those with δ ≠ 0; 0 otherwise).
     pub unconservative_zeta_zero: f64,
+    /// What the coefficient search could not do at this κ (empty when it
+    /// went as designed): a coefficient at the edge of the scanned range,
+    /// a refinement that did not improve on the scan.
+    pub search_notes: Vec<String>,
+}
+
+/// Half-width of the scanned range of C2 and C3.
+const SCAN: f64 = 6.0;
+
+fn at_scan_edge(name: &str, c: f64, step: f64) -> Option<String> {
+    (c.abs() >= SCAN - step).then(|| {
+        format!("{name} = {c:.4} lies at the edge of the scanned range [-{SCAN}, {SCAN}]: the optimum may lie outside it")
+    })
 }
 
 fn c1_and_ss(c2: f64, kappa: f64, pts: &[(f64, f64)]) -> (f64, f64) {
@@ -143,7 +156,7 @@ pub fn fit_at(kappa: f64, pts: &[(f64, f64)]) -> Result<PerKappa, FitError> {
         )));
     }
     let ss = |c2: f64| c1_and_ss(c2, kappa, &used).1;
-    let (lo, hi, n) = (-6.0, 6.0, 241);
+    let (lo, hi, n) = (-SCAN, SCAN, 241);
     let grid: Vec<f64> = (0..n)
         .map(|i| lo + (hi - lo) * i as f64 / (n - 1) as f64)
         .collect();
@@ -174,6 +187,9 @@ pub fn fit_at(kappa: f64, pts: &[(f64, f64)]) -> Result<PerKappa, FitError> {
     }
     let c2 = 0.5 * (a + b);
     let (c1, _) = c1_and_ss(c2, kappa, &used);
+    let search_notes: Vec<String> = at_scan_edge("C2", c2, 2.0 * SCAN / 240.0)
+        .into_iter()
+        .collect();
     let mut pk = PerKappa {
         kappa,
         c1,
@@ -189,6 +205,7 @@ pub fn fit_at(kappa: f64, pts: &[(f64, f64)]) -> Result<PerKappa, FitError> {
         unconservative_zeta_positive: 0.0,
         unconservative_zeta_negative: 0.0,
         unconservative_zeta_zero: 0.0,
+        search_notes,
     };
     for &(z, mu) in &used {
         let e = three_factor(c1, c2, kappa, z) / mu - 1.0;
@@ -296,7 +313,7 @@ pub fn fit_at_delta(kappa: f64, pts: &[(f64, f64, f64)]) -> Result<PerKappa, Fit
         let c1 = s1 / s2;
         (c1, r.iter().map(|x| (c1 * x - 1.0).powi(2)).sum())
     };
-    let (lo, hi, n) = (-6.0, 6.0, 121);
+    let (lo, hi, n) = (-SCAN, SCAN, 121);
     let grid: Vec<f64> = (0..n)
         .map(|i| lo + (hi - lo) * i as f64 / (n - 1) as f64)
         .collect();
@@ -332,12 +349,20 @@ pub fn fit_at_delta(kappa: f64, pts: &[(f64, f64, f64)]) -> Result<PerKappa, Fit
             .map(|&(z, d, mu)| (three_factor_mono(c1, c2, c3, kappa, z, d) / mu - 1.0).powi(2))
             .sum()
     };
-    let p = if report.termination.was_successful() && ss_of(&refined) <= ss_of(&start) {
-        refined
-    } else {
-        start
-    };
+    let improved = report.termination.was_successful() && ss_of(&refined) <= ss_of(&start);
+    let p = if improved { refined } else { start };
     let (c1, c2, c3) = done.coefs(&p);
+    let step = 2.0 * SCAN / 120.0;
+    let mut search_notes: Vec<String> = Vec::new();
+    if !improved {
+        search_notes.push(format!(
+            "the Levenberg-Marquardt refinement did not improve on the scan: coefficients from the scan (steps of {step})"
+        ));
+    }
+    if with_c2 {
+        search_notes.extend(at_scan_edge("C2", c2, step));
+    }
+    search_notes.extend(at_scan_edge("C3", c3, step));
     let mut pk = PerKappa {
         kappa,
         c1,
@@ -353,6 +378,7 @@ pub fn fit_at_delta(kappa: f64, pts: &[(f64, f64, f64)]) -> Result<PerKappa, Fit
         unconservative_zeta_positive: 0.0,
         unconservative_zeta_negative: 0.0,
         unconservative_zeta_zero: 0.0,
+        search_notes,
     };
     for &(z, d, mu) in &used {
         let e = three_factor_mono(c1, c2, c3, kappa, z, d) / mu - 1.0;

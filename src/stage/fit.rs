@@ -760,6 +760,18 @@ fn fit_one(
                 }
             }
             details.insert("per_kappa".into(), Value::Array(per));
+            let notes: Vec<String> = c
+                .per_kappa
+                .iter()
+                .flat_map(|p| {
+                    p.search_notes
+                        .iter()
+                        .map(move |n| format!("kappa = {}: {n}", fmt_num(p.kappa)))
+                })
+                .collect();
+            if !notes.is_empty() {
+                details.insert("search_notes".into(), json!(notes));
+            }
             details.insert("zeta_excluded_below".into(), num(ccurves::ZETA_MIN));
             Model::CCurves(c.printed(spec.digits))
         }
