@@ -95,6 +95,40 @@ fn true_max_error(f: &Formula, truth: fn(f64, f64) -> f64, d: &Domain) -> (f64, 
     (rel, unc)
 }
 
+/// Print `fit` (4 digits), measure its bound against the analytic
+/// stand-in `truth` as the stage does, and assert that neither the
+/// relative nor the unconservative bound is below the dense-sampled truth.
+/// Returns the bounds and the true largest relative error.
+fn bound_covers_truth(
+    fit: &surface::SurfaceFit,
+    truth: fn(f64, f64) -> f64,
+    d: &Domain,
+    s: &[Sample],
+    e: f64,
+    max_degree: usize,
+) -> (fit::Bounds, f64) {
+    let f = Formula {
+        model: Model::Surface(fit.printed(4)),
+        factor: None,
+    };
+    let c = f.compile().unwrap();
+    let mut eng = engine(truth, e);
+    let checks = fit::validate(&c, d, s, ValidationSettings::default(), &mut *eng).unwrap();
+    let b = fit::bounds(&checks);
+    let (rel, unc) = true_max_error(&f, truth, d);
+    assert!(
+        b.max_rel_error.value >= rel,
+        "degree {max_degree}: bound {} below the true maximum {rel}",
+        b.max_rel_error.value
+    );
+    assert!(
+        b.max_unconservative_error.value >= unc,
+        "degree {max_degree}: bound {} below the true unconservative maximum {unc}",
+        b.max_unconservative_error.value
+    );
+    (b, rel)
+}
+
 #[test]
 fn reported_bound_is_at_least_the_true_maximum_error_by_dense_sampling() {
     // Check against dense sampling of the known surface (common practice,
@@ -110,25 +144,7 @@ fn reported_bound_is_at_least_the_true_maximum_error_by_dense_sampling() {
             ..Default::default()
         };
         let fit = surface::fit(&s, &d, o).unwrap();
-        let f = Formula {
-            model: Model::Surface(fit.printed(4)),
-            factor: None,
-        };
-        let c = f.compile().unwrap();
-        let mut eng = engine(curved, e);
-        let checks = fit::validate(&c, &d, &s, ValidationSettings::default(), &mut *eng).unwrap();
-        let b = fit::bounds(&checks);
-        let (rel, unc) = true_max_error(&f, curved, &d);
-        assert!(
-            b.max_rel_error.value >= rel,
-            "degree {max_degree}: bound {} below the true maximum {rel}",
-            b.max_rel_error.value
-        );
-        assert!(
-            b.max_unconservative_error.value >= unc,
-            "degree {max_degree}: bound {} below the true unconservative maximum {unc}",
-            b.max_unconservative_error.value
-        );
+        let (b, rel) = bound_covers_truth(&fit, curved, &d, &s, e, max_degree);
         // And not wildly above it (the bound adds only the estimate e).
         assert!(b.max_rel_error.value <= rel + 2.0 * e + 1e-9);
     }
@@ -337,26 +353,7 @@ fn the_stage_path_bound_covers_peaks_on_the_domains_edges() {
                 ..Default::default()
             };
             let fit = surface::fit_with_validation(&s, &between, &d, o).unwrap();
-            let f = Formula {
-                model: Model::Surface(fit.printed(4)),
-                factor: None,
-            };
-            let c = f.compile().unwrap();
-            let mut eng = engine(truth, e);
-            let checks =
-                fit::validate(&c, &d, &s, ValidationSettings::default(), &mut *eng).unwrap();
-            let b = fit::bounds(&checks);
-            let (rel, unc) = true_max_error(&f, truth, &d);
-            assert!(
-                b.max_rel_error.value >= rel,
-                "degree {max_degree}: bound {} below the true maximum {rel}",
-                b.max_rel_error.value
-            );
-            assert!(
-                b.max_unconservative_error.value >= unc,
-                "degree {max_degree}: bound {} below the true unconservative maximum {unc}",
-                b.max_unconservative_error.value
-            );
+            bound_covers_truth(&fit, truth, &d, &s, e, max_degree);
         }
     }
 }
