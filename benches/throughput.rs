@@ -69,6 +69,8 @@ fn run(name: &str, cases: &[Member]) {
     let mut est_max: f64 = 0.0;
     let mut elements = 0usize;
     let mut not_ok = 0;
+    // LTB_BENCH_HISTORY=1: each case's refinement history on stderr (element count:factor per level)
+    let history = std::env::var("LTB_BENCH_HISTORY").is_ok();
     for m in cases {
         let r = solve(m, &s).expect("benchmark case must solve");
         if r.forward.status != Status::Ok {
@@ -77,6 +79,15 @@ fn run(name: &str, cases: &[Member]) {
         est_sum += r.forward.error_estimate;
         est_max = est_max.max(r.forward.error_estimate);
         elements += r.forward.elements;
+        if history {
+            let h: Vec<String> = r
+                .forward
+                .history
+                .iter()
+                .map(|(n, l)| format!("{n}:{l:.8}"))
+                .collect();
+            eprintln!("{name}\t{}\t{}", m.kappa, h.join(" "));
+        }
     }
     let dt = t.elapsed().as_secs_f64();
     println!(

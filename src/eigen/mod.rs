@@ -171,8 +171,23 @@ impl Workspace {
     }
 }
 
+/// aᵀ·b in four independent partial sums (fixed order: deterministic).
 fn dot(a: &[f64], b: &[f64]) -> f64 {
-    a.iter().zip(b).map(|(x, y)| x * y).sum()
+    let n = a.len().min(b.len());
+    let (a, b) = (&a[..n], &b[..n]);
+    let mut p = [0.0_f64; 4];
+    let (ca, cb) = (a.chunks_exact(4), b.chunks_exact(4));
+    let (ra, rb) = (ca.remainder(), cb.remainder());
+    for (x, y) in ca.zip(cb) {
+        for l in 0..4 {
+            p[l] += x[l] * y[l];
+        }
+    }
+    let mut s = (p[0] + p[1]) + (p[2] + p[3]);
+    for (x, y) in ra.iter().zip(rb) {
+        s += x * y;
+    }
+    s
 }
 
 /// Largest eigenvalue of the symmetric tridiagonal (α, β) and its vector.

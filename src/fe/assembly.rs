@@ -62,7 +62,7 @@ fn selection(t: &[[f64; NFULL]; NFULL], r: usize) -> Option<[Option<u8>; NFULL]>
 }
 
 /// The assembled eigenproblem (K + λ·Kg)·x = 0 on one mesh.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, Default)]
 pub struct System {
     /// Node positions.
     pub x: Vec<f64>,
@@ -72,6 +72,8 @@ pub struct System {
     pub k: BandMatrix,
     /// Geometric matrix (reduced).
     pub g: BandMatrix,
+    /// Element data of the last assembly (storage reused by the next).
+    els: Vec<ElementData>,
 }
 
 /// The basis of a node whose only constraint is warping continuity
@@ -243,6 +245,16 @@ fn apply(act: &mut NodeActions, f: Fixity, c: [f64; NFULL]) {
 /// Assemble K and Kg for `m` on nodes `x` (which contain every key point),
 /// with the pre-buckling moment field `mf`.
 pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
+    let mut sys = System::default();
+    assemble_into(&mut sys, m, x, mf);
+    sys
+}
+
+/// [`assemble`] into an existing system, reusing its storage (the solve
+/// driver keeps two systems and alternates them over the mesh levels, so a
+/// solve allocates its matrices once). The result does not depend on what
+/// `sys` held before.
+pub fn assemble_into(sys: &mut System, m: &Member, x: &[f64], mf: &MomentField) {
     let nn = x.len();
     let ne = nn - 1;
     // Element data.
@@ -250,33 +262,33 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         .axial
         .map(|a| [a.n, a.zeta_centroid / PI, (a.rho / PI).powi(2)])
         .unwrap_or([0.0; 3]);
-    let els: Vec<ElementData> = (0..ne)
-        .map(|e| {
-            let (a, b) = (x[e], x[e + 1]);
-            let mid = 0.5 * (a + b);
-            let s = m.stiffness_at(mid);
-            let mut spring = [0.0; 3];
-            for c in &m.continuous {
-                if mid > c.from && mid < c.to {
-                    let z = c.zeta / PI;
-                    spring[0] += c.lateral;
-                    spring[1] -= c.lateral * z;
-                    spring[2] += c.lateral * z * z + c.twist;
-                }
+    let mut els = std::mem::take(&mut sys.els);
+    els.clear();
+    els.extend((0..ne).map(|e| {
+        let (a, b) = (x[e], x[e + 1]);
+        let mid = 0.5 * (a + b);
+        let s = m.stiffness_at(mid);
+        let mut spring = [0.0; 3];
+        for c in &m.continuous {
+            if mid > c.from && mid < c.to {
+                let z = c.zeta / PI;
+                spring[0] += c.lateral;
+                spring[1] -= c.lateral * z;
+                spring[2] += c.lateral * z * z + c.twist;
             }
-            ElementData {
-                h: b - a,
-                eiz: s.eiz,
-                git: s.git,
-                eiw: s.eiw,
-                beta: s.beta,
-                m: mf.on(a, b),
-                qa: distributed_on(m, a, b, |z| z / PI),
-                axial: ax,
-                spring,
-            }
-        })
-        .collect();
+        }
+        ElementData {
+            h: b - a,
+            eiz: s.eiz,
+            git: s.git,
+            eiw: s.eiw,
+            beta: s.beta,
+            m: mf.on(a, b),
+            qa: distributed_on(m, a, b, |z| z / PI),
+            axial: ax,
+            spring,
+        }
+    }));
 
     // Node actions, kept only for the few nodes where something acts
     // (supports, restraints, point loads); every other node carries warping
@@ -332,7 +344,8 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
     }
 
     // DOF maps.
-    let mut dofs = Vec::with_capacity(nn);
+    let mut dofs = std::mem::take(&mut sys.dofs);
+    dofs.clear();
     let mut off = 0;
     let tied_sel = selection(&TIED, 4);
     for i in 0..nn {
@@ -374,8 +387,10 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         .unwrap_or(1)
         .max(1)
         - 1;
-    let mut k = BandMatrix::zeros(n, bw);
-    let mut g = BandMatrix::zeros(n, bw);
+    let mut k = std::mem::take(&mut sys.k);
+    let mut g = std::mem::take(&mut sys.g);
+    k.reset(n, bw);
+    g.reset(n, bw);
 
     // Element matrices.
     for (e, ed) in els.iter().enumerate() {
@@ -388,12 +403,12 @@ pub fn assemble(m: &Member, x: &[f64], mf: &MomentField) -> System {
         scatter_node(&mut k, &a.spring, &dofs[*i]);
         scatter_node(&mut g, &a.geo, &dofs[*i]);
     }
-    System {
-        x: x.to_vec(),
-        dofs,
-        k,
-        g,
-    }
+    sys.x.clear();
+    sys.x.extend_from_slice(x);
+    sys.dofs = dofs;
+    sys.k = k;
+    sys.g = g;
+    sys.els = els;
 }
 
 /// Full DOFs of an element end: left node uses φ'₊ (index 4), right node φ'₋ (3).

@@ -47,6 +47,13 @@ impl BandMatrix {
             a: vec![0.0; n * (b + 1)],
         }
     }
+    /// Make self an n×n zero matrix with half-bandwidth b, reusing storage.
+    pub fn reset(&mut self, n: usize, b: usize) {
+        self.n = n;
+        self.b = b;
+        self.a.clear();
+        self.a.resize(n * (b + 1), 0.0);
+    }
     /// Order.
     pub fn n(&self) -> usize {
         self.n
@@ -135,33 +142,50 @@ impl BandMatrix {
     }
 
     fn mul_vec_fixed<const B: usize>(&self, x: &[f64], y: &mut [f64]) {
+        // y_i = Σ_{j ≤ i} A_ij·x_j (along the stored row) + Σ_{k=1..B}
+        // A_{i+k, i}·x_{i+k} (down the column): two dot products per row
+        // and no update of other rows, so rows are independent.
         let n = self.n;
         let w = B + 1;
+        let a = &self.a[..n * w];
         let x = &x[..n];
         let y = &mut y[..n];
-        y.iter_mut().for_each(|v| *v = 0.0);
-        for i in 0..n.min(B) {
-            let row = &self.a[i * w..(i + 1) * w];
-            let xi = x[i];
-            let mut s = row[B] * xi;
-            for j in 0..i {
-                let aij = row[j + B - i];
-                s += aij * x[j];
-                y[j] += aij * xi;
+        for i in 0..n {
+            let row = &a[i * w..(i + 1) * w];
+            let (mut p0, mut p1) = (row[B] * x[i], 0.0);
+            if i >= B {
+                let xs = &x[i - B..i];
+                let mut c = 0;
+                while c + 1 < B {
+                    p0 += row[c] * xs[c];
+                    p1 += row[c + 1] * xs[c + 1];
+                    c += 2;
+                }
+                if c < B {
+                    p0 += row[c] * xs[c];
+                }
+            } else {
+                for j in 0..i {
+                    p1 += row[j + B - i] * x[j];
+                }
             }
-            y[i] += s;
-        }
-        for i in B.min(n)..n {
-            let row: &[f64] = &self.a[i * w..(i + 1) * w];
-            let xs = &x[i - B..=i];
-            let ys = &mut y[i - B..=i];
-            let xi = xs[B];
-            let mut s = row[B] * xi;
-            for c in 0..B {
-                s += row[c] * xs[c];
-                ys[c] += row[c] * xi;
+            if i + B < n {
+                let base = i * w + B;
+                let mut k = 1;
+                while k < B {
+                    p0 += a[base + k * w - k] * x[i + k];
+                    p1 += a[base + (k + 1) * w - (k + 1)] * x[i + k + 1];
+                    k += 2;
+                }
+                if k == B {
+                    p0 += a[base + k * w - k] * x[i + k];
+                }
+            } else {
+                for r in i + 1..n {
+                    p0 += a[r * w + B - (r - i)] * x[r];
+                }
             }
-            ys[B] += s;
+            y[i] = p0 + p1;
         }
     }
 
@@ -378,39 +402,63 @@ impl BandMatrix {
     fn solve_fixed<const B: usize>(&self, x: &mut [f64]) {
         let n = self.n;
         let w = B + 1;
+        let a = &self.a[..n * w];
         let x = &mut x[..n];
         let head = n.min(B);
-        for i in 0..n {
-            let row = &self.a[i * w..(i + 1) * w];
+        // Forward: x_i −= Σ L_ij·x_j. The terms with x_{i−B} … x_{i−2} are
+        // summed in two independent partial sums before x_{i−1} is known,
+        // so the chain from row to row is one FMA.
+        for i in 0..head {
+            let row = &a[i * w..(i + 1) * w];
             let mut s = x[i];
-            if i >= head {
-                let xs = &x[i - B..i];
-                for c in 0..B {
-                    s -= row[c] * xs[c];
-                }
-            } else {
-                for j in 0..i {
-                    s -= row[j + B - i] * x[j];
-                }
+            for j in 0..i {
+                s -= row[j + B - i] * x[j];
             }
             x[i] = s;
         }
-        for i in 0..n {
-            x[i] *= self.a[i * w + B];
-        }
-        for i in (0..n).rev() {
-            let row = &self.a[i * w..(i + 1) * w];
-            let xi = x[i];
-            if i >= head {
-                let xs = &mut x[i - B..i];
-                for c in 0..B {
-                    xs[c] -= row[c] * xi;
-                }
-            } else {
-                for j in 0..i {
-                    x[j] -= row[j + B - i] * xi;
-                }
+        for i in head..n {
+            let row = &a[i * w..(i + 1) * w];
+            let xs = &x[i - B..i];
+            let (mut p0, mut p1) = (0.0, 0.0);
+            let mut c = 0;
+            while c + 2 < B {
+                p0 += row[c] * xs[c];
+                p1 += row[c + 1] * xs[c + 1];
+                c += 2;
             }
+            if c + 1 < B {
+                p0 += row[c] * xs[c];
+            }
+            x[i] = (x[i] - (p0 + p1)) - row[B - 1] * xs[B - 1];
+        }
+        for (xi, row) in x.iter_mut().zip(a.chunks_exact(w)) {
+            *xi *= row[B];
+        }
+        // Backward: x_j −= Σ_{k=1..B} L_{j+k, j}·x_{j+k}, read down the
+        // column (entry (j + k, j) sits at (j + k)·w + B − k), with the
+        // same split: x_{j+1} enters last.
+        let tail = n.saturating_sub(B);
+        for j in (tail..n).rev() {
+            let mut s = x[j];
+            for r in j + 1..n {
+                s -= a[r * w + B - (r - j)] * x[r];
+            }
+            x[j] = s;
+        }
+        for j in (0..tail).rev() {
+            let (mut p0, mut p1) = (0.0, 0.0);
+            let base = j * w + B;
+            // k = B, B − 1, …, 2 in pairs; k = 1 last
+            let mut k = B;
+            while k >= 3 {
+                p0 += a[base + k * w - k] * x[j + k];
+                p1 += a[base + (k - 1) * w - (k - 1)] * x[j + k - 1];
+                k -= 2;
+            }
+            if k == 2 {
+                p0 += a[base + 2 * w - 2] * x[j + 2];
+            }
+            x[j] = (x[j] - (p0 + p1)) - a[base + w - 1] * x[j + 1];
         }
     }
 }

@@ -283,9 +283,13 @@ fn direction(
     };
     let mut level = 0;
     let mut level_inertia: Vec<Inertia>;
+    // Two systems alternate over the levels (the previous level's mode
+    // starts the next): storage is allocated once per solve.
+    let mut spare = System::default();
     while level <= s.max_level {
         let x = mesh::refine(base, level);
-        let mut sys = assembly::assemble(m, &x, mf);
+        let mut sys = std::mem::take(&mut spare);
+        assembly::assemble_into(&mut sys, m, &x, mf);
         if sign < 0.0 {
             sys.g.scale(-1.0);
         }
@@ -311,7 +315,9 @@ fn direction(
                 if no_buckling_levels >= 2 || level == s.max_level {
                     return Ok(no_buckling(inertia, &sys, history));
                 }
-                prev = None;
+                if let Some((_, _, old, _)) = prev.take() {
+                    spare = old;
+                }
                 level += 1;
                 continue;
             }
@@ -386,13 +392,17 @@ fn direction(
                     }
                     // A lower factor than the estimate was built on: refine
                     // further from the proven mode.
-                    prev = Some((l2, r2, sys, m2));
+                    if let Some((_, _, old, _)) = prev.replace((l2, r2, sys, m2)) {
+                        spare = old;
+                    }
                     level += 1;
                     continue;
                 }
             }
         }
-        prev = Some((lambda, round_off, sys, mode));
+        if let Some((_, _, old, _)) = prev.replace((lambda, round_off, sys, mode)) {
+            spare = old;
+        }
         level += 1;
     }
     Err(SolveError::Eigen(
