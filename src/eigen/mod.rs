@@ -191,7 +191,11 @@ fn dot(a: &[f64], b: &[f64]) -> f64 {
 }
 
 /// Largest eigenvalue of the symmetric tridiagonal (α, β) and its vector.
-fn tridiag_max(alpha: &[f64], beta: &[f64]) -> (f64, Vec<f64>) {
+/// `floor`: a value known not to exceed it — the largest eigenvalue of the
+/// leading principal submatrix one order smaller, by Cauchy interlacing
+/// (Parlett 1998, §10.1) — or −∞. Returns (θ, vector, a lower bound of θ
+/// from the bisection).
+fn tridiag_max(alpha: &[f64], beta: &[f64], floor: f64) -> (f64, Vec<f64>, f64) {
     let m = alpha.len();
     let mut lo = f64::INFINITY;
     let mut hi = f64::NEG_INFINITY;
@@ -201,40 +205,56 @@ fn tridiag_max(alpha: &[f64], beta: &[f64]) -> (f64, Vec<f64>) {
         lo = lo.min(alpha[i] - r);
         hi = hi.max(alpha[i] + r);
     }
-    // count of eigenvalues < x (Sturm sequence of the tridiagonal)
-    let below = |x: f64| {
-        let mut d = 1.0;
-        let mut c = 0;
+    // Counts of eigenvalues below each of four points (Sturm sequences of
+    // the tridiagonal), run side by side: each sequence is a chain of
+    // divisions, so four independent chains cost about as much as one.
+    let below4 = |x: [f64; 4]| {
+        let mut d = [1.0_f64; 4];
+        let mut c = [0usize; 4];
         for i in 0..m {
             let b2 = if i > 0 {
                 beta[i - 1] * beta[i - 1]
             } else {
                 0.0
             };
-            d = alpha[i] - x - if i > 0 { b2 / d } else { 0.0 };
-            if d == 0.0 {
-                d = -1e-300;
-            }
-            if d < 0.0 {
-                c += 1;
+            for l in 0..4 {
+                let mut dl = alpha[i] - x[l] - if i > 0 { b2 / d[l] } else { 0.0 };
+                if dl == 0.0 {
+                    dl = -1e-300;
+                }
+                if dl < 0.0 {
+                    c[l] += 1;
+                }
+                d[l] = dl;
             }
         }
         c
     };
     let span = (hi - lo).max(f64::MIN_POSITIVE);
-    let (mut a, mut b) = (lo - 1e-12 * span, hi + 1e-12 * span);
-    // To 1e-12 of the span (about 40 halvings): θ only starts an inverse
-    // iteration, whose shift is moved by η anyway.
-    while b - a > 1e-12 * span {
-        let mid = 0.5 * (a + b);
-        if mid <= a || mid >= b {
+    let (mut a, mut b) = (lo.max(floor) - 1e-12 * span, hi + 1e-12 * span);
+    // Multisection to 1e-9 of the span (13 rounds of five parts): θ only
+    // judges the Lanczos residual and starts an inverse iteration whose
+    // result the inertia counts check. Invariant: an eigenvalue ≥ a, none ≥ b.
+    while b - a > 1e-9 * span {
+        let h = (b - a) / 5.0;
+        let x = [a + h, a + 2.0 * h, a + 3.0 * h, a + 4.0 * h];
+        if !(x[0] > a && x[3] < b) {
             break;
         }
-        if below(mid) == m { b = mid } else { a = mid }
+        let c = below4(x);
+        // the first point below which all m eigenvalues lie
+        match c.iter().position(|&k| k == m) {
+            Some(0) => b = x[0],
+            Some(p) => {
+                a = x[p - 1];
+                b = x[p];
+            }
+            None => a = x[3],
+        }
     }
     let theta = b;
     // Eigenvector: inverse iteration with T − (θ + η)·I, negative definite.
-    let eta = 1e-10 * span.max(theta.abs());
+    let eta = 1e-9 * span.max(theta.abs());
     let mut s = vec![1.0; m];
     let mut cp = vec![0.0; m];
     let mut dp = vec![0.0; m];
@@ -258,7 +278,7 @@ fn tridiag_max(alpha: &[f64], beta: &[f64]) -> (f64, Vec<f64>) {
         let inv = 1.0 / dot(&s, &s).sqrt();
         s.iter_mut().for_each(|v| *v *= inv);
     }
-    (theta, s)
+    (theta, s, a)
 }
 
 /// Lanczos estimate of the largest positive μ = 1/λ: (λ, Ritz vector), or
@@ -284,6 +304,7 @@ fn lanczos(
     let mut alpha = Vec::with_capacity(m);
     let mut beta: Vec<f64> = Vec::with_capacity(m);
     let mut last = (f64::NAN, Vec::new());
+    let mut floor = f64::NEG_INFINITY;
     let mut r = vec![0.0; n];
     let mut kr = vec![0.0; n];
     for j in 0..m {
@@ -309,7 +330,8 @@ fn lanczos(
         // for a shift; the inverse iteration does the rest.
         let done = j + 1 == m || b <= 1e-12 * alpha.iter().fold(0.0_f64, |x, y| x.max(y.abs()));
         if done || j >= 3 {
-            let (theta, s) = tridiag_max(&alpha, &beta);
+            let (theta, s, lower) = tridiag_max(&alpha, &beta, floor);
+            floor = lower;
             let resid = (b * s[j]).abs();
             if done || resid <= 1e-2 * theta.abs() {
                 last = (theta, s);
