@@ -8,7 +8,7 @@
 mod common;
 
 use ltb_atlas::model::Member;
-use ltb_atlas::solve::{Settings, Status, solve};
+use ltb_atlas::solve::{Settings, Status, Workspace, solve_in};
 use std::time::Instant;
 
 /// Small deterministic generator (64-bit LCG, Knuth's MMIX constants).
@@ -71,8 +71,11 @@ fn run(name: &str, cases: &[Member]) {
     let mut not_ok = 0;
     // LTB_BENCH_HISTORY=1: each case's refinement history on stderr (element count:factor per level)
     let history = std::env::var("LTB_BENCH_HISTORY").is_ok();
+    // One workspace for the run, as a sweep worker keeps one: storage only,
+    // no values carried from case to case.
+    let mut ws = Workspace::new();
     for m in cases {
-        let r = solve(m, &s).expect("benchmark case must solve");
+        let r = solve_in(&mut ws, m, &s).expect("benchmark case must solve");
         if r.forward.status != Status::Ok {
             not_ok += 1;
         }

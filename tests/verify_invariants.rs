@@ -431,3 +431,35 @@ fn reversed_load_at_height_equals_forward_load_at_minus_height() {
         assert!((lf(&a.forward) - lf(&a_rev)).abs() > 0.01 * lf(&a.forward));
     }
 }
+
+#[test]
+fn a_reused_workspace_gives_the_same_solution_bit_for_bit() {
+    // Determinism requirement (developers' guide, no source needed): a sweep worker reuses one
+    // solve workspace for many cases; only storage may carry over, never values. Cases of
+    // different sizes, supports and load directions are solved in sequence with one workspace
+    // and compared exactly with fresh solves.
+    use ltb_atlas::solve::{Workspace, solve_in};
+    let reversed = Settings {
+        reversed: true,
+        ..Default::default()
+    };
+    let cases = [
+        (common::cantilever_tip(0.05, 0.8), Settings::default()),
+        (common::simple_span_uniform(2.0, -0.5), reversed),
+        (common::propped_cantilever(), reversed),
+        (common::cantilever_uniform(0.3, 0.0), Settings::default()),
+        (common::fork_column(0.7, 1.0, 0.2, 1.3), Settings::default()),
+        (
+            common::simple_span_central_point(0.02, 1.0),
+            Settings::default(),
+        ),
+    ];
+    let mut ws = Workspace::new();
+    for round in 0..2 {
+        for (i, (m, s)) in cases.iter().enumerate() {
+            let fresh = ltb_atlas::solve::solve(m, s).unwrap();
+            let reused = solve_in(&mut ws, m, s).unwrap();
+            assert_eq!(fresh, reused, "case {i}, round {round}");
+        }
+    }
+}

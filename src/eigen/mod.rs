@@ -140,6 +140,18 @@ pub struct Workspace {
     c: BandMatrix,
     t1: Vec<f64>,
     t2: Vec<f64>,
+    lz: LanczosBuffers,
+}
+
+/// Storage of a Lanczos run (reused; every entry is written before use).
+#[derive(Debug, Clone, Default)]
+struct LanczosBuffers {
+    qs: Vec<f64>,
+    ps: Vec<f64>,
+    alpha: Vec<f64>,
+    beta: Vec<f64>,
+    r: Vec<f64>,
+    kr: Vec<f64>,
 }
 
 impl Workspace {
@@ -288,12 +300,23 @@ fn lanczos(
     kf: &BandMatrix,
     g: &BandMatrix,
     steps: usize,
+    lz: &mut LanczosBuffers,
 ) -> Option<(f64, Vec<f64>)> {
     let n = k.n();
     let m = steps.min(n);
     // Lanczos vectors q_j and K·q_j, stored flat (row j at j·n).
-    let mut qs: Vec<f64> = Vec::with_capacity((m + 1) * n);
-    let mut ps: Vec<f64> = Vec::with_capacity((m + 1) * n);
+    let LanczosBuffers {
+        qs,
+        ps,
+        alpha,
+        beta,
+        r,
+        kr,
+    } = lz;
+    qs.clear();
+    ps.clear();
+    alpha.clear();
+    beta.clear();
     // Deterministic start vector with components in every mode.
     qs.extend((0..n).map(|i| 1.0 + 0.5 * ((i as f64) * 1.618_033_988_75 + 0.3).sin()));
     ps.resize(n, 0.0);
@@ -301,36 +324,35 @@ fn lanczos(
     let kq0 = 1.0 / dot(&qs[..n], &ps[..n]).sqrt();
     qs.iter_mut().for_each(|v| *v *= kq0);
     ps.iter_mut().for_each(|v| *v *= kq0);
-    let mut alpha = Vec::with_capacity(m);
-    let mut beta: Vec<f64> = Vec::with_capacity(m);
     let mut last = (f64::NAN, Vec::new());
     let mut floor = f64::NEG_INFINITY;
-    let mut r = vec![0.0; n];
-    let mut kr = vec![0.0; n];
+    r.resize(n, 0.0);
+    kr.resize(n, 0.0);
+    let (r, kr) = (&mut r[..n], &mut kr[..n]);
     for j in 0..m {
         // r = K⁻¹(−G q_j), K r = −G q_j
-        g.mul_vec(&qs[j * n..(j + 1) * n], &mut kr);
+        g.mul_vec(&qs[j * n..(j + 1) * n], kr);
         kr.iter_mut().for_each(|v| *v = -*v);
-        r.copy_from_slice(&kr);
-        kf.solve_in_place(&mut r);
-        let a = dot(&qs[j * n..(j + 1) * n], &kr);
+        r.copy_from_slice(kr);
+        kf.solve_in_place(r);
+        let a = dot(&qs[j * n..(j + 1) * n], kr);
         alpha.push(a);
         // Full re-orthogonalisation in the K inner product, one pass: the
         // run is short and only starts the inverse iteration, whose result
         // the inertia count checks.
         for (qi, pi) in qs.chunks_exact(n).zip(ps.chunks_exact(n)) {
-            let c = dot(pi, &r);
+            let c = dot(pi, r);
             for t in 0..n {
                 r[t] -= c * qi[t];
                 kr[t] -= c * pi[t];
             }
         }
-        let b = dot(&r, &kr).max(0.0).sqrt();
+        let b = dot(r, kr).max(0.0).sqrt();
         // Stop once the largest Ritz value's residual is 1 % of it: enough
         // for a shift; the inverse iteration does the rest.
         let done = j + 1 == m || b <= 1e-12 * alpha.iter().fold(0.0_f64, |x, y| x.max(y.abs()));
         if done || j >= 3 {
-            let (theta, s, lower) = tridiag_max(&alpha, &beta, floor);
+            let (theta, s, lower) = tridiag_max(alpha, beta, floor);
             floor = lower;
             let resid = (b * s[j]).abs();
             if done || resid <= 1e-2 * theta.abs() {
@@ -457,7 +479,7 @@ pub fn lowest_positive_in(
     let est = match given {
         Some(e) => Some(e),
         // wk.c holds the factor of K here
-        None => lanczos(k, &wk.c, g, opt.lanczos_steps),
+        None => lanczos(k, &wk.c, g, opt.lanczos_steps, &mut wk.lz),
     };
     let (mut sigma, mut x) = match est {
         Some((l, x)) if l < opt.limit => (l, x),

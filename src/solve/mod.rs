@@ -148,6 +148,11 @@ pub enum SolveError {
 
 /// Solve a member.
 pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
+    solve_in(&mut Workspace::new(), m, s)
+}
+
+/// [`solve`] with a caller's workspace (see [`Workspace`]).
+pub fn solve_in(wsp: &mut Workspace, m: &Member, s: &Settings) -> Result<Solution, SolveError> {
     m.validate()?;
     let mut notes = Vec::new();
     // Below KAPPA_NEGLIGIBLE the warping stiffness is dropped: its twist
@@ -227,10 +232,9 @@ pub fn solve(m: &Member, s: &Settings) -> Result<Solution, SolveError> {
         });
     };
     let base = mesh::member_base_nodes(m, &s.mesh);
-    let mut ws = eigen::Workspace::new();
-    let forward = direction(m, &mf, &base, s, limit, 1.0, &mut ws)?;
+    let forward = direction(m, &mf, &base, s, limit, 1.0, wsp)?;
     let reversed = if s.reversed {
-        Some(direction(m, &mf, &base, s, limit, -1.0, &mut ws)?)
+        Some(direction(m, &mf, &base, s, limit, -1.0, wsp)?)
     } else {
         None
     };
@@ -252,6 +256,35 @@ fn warping_restrained(m: &Member) -> bool {
     w(&m.start) || w(&m.end) || m.supports.iter().any(|s| w(&s.support))
 }
 
+/// Reusable storage of a solve: the eigen-solver's workspace and two
+/// assembled systems that alternate over the mesh levels. A caller that
+/// solves many cases on one thread (a sweep worker, a benchmark) keeps one
+/// and passes it to [`solve_in`], so that a solve allocates nothing but its
+/// results. Only storage is reused: every entry is written before it is
+/// read, so results do not depend on what the workspace held (tested).
+#[derive(Debug, Clone, Default)]
+pub struct Workspace {
+    eig: eigen::Workspace,
+    sys: [System; 2],
+}
+
+impl Workspace {
+    /// An empty workspace.
+    pub fn new() -> Workspace {
+        Workspace::default()
+    }
+}
+
+/// The system being assembled (slot `cur`) and the previous level's (the other slot).
+fn slots(sys: &mut [System; 2], cur: usize) -> (&mut System, &System) {
+    let (a, b) = sys.split_at_mut(1);
+    if cur == 0 {
+        (&mut a[0], &b[0])
+    } else {
+        (&mut b[0], &a[0])
+    }
+}
+
 fn direction(
     m: &Member,
     mf: &MomentField,
@@ -259,11 +292,13 @@ fn direction(
     s: &Settings,
     limit: f64,
     sign: f64,
-    ws: &mut eigen::Workspace,
+    wsp: &mut Workspace,
 ) -> Result<Direction, SolveError> {
     let mut history: Vec<(usize, f64)> = Vec::new();
-    // (factor, relative round-off, system, mode) of the previous level
-    let mut prev: Option<(f64, f64, System, Vec<f64>)> = None;
+    // (factor, relative round-off, mode) of the previous level, whose
+    // system sits in the slot other than `cur`
+    let mut prev: Option<(f64, f64, Vec<f64>)> = None;
+    let mut cur = 0;
     let mut no_buckling_levels = 0;
     let eigen_err = |e: eigen::EigenError, sys: &System| match e {
         eigen::EigenError::Mechanism { row } => {
@@ -283,22 +318,21 @@ fn direction(
     };
     let mut level = 0;
     let mut level_inertia: Vec<Inertia>;
-    // Two systems alternate over the levels (the previous level's mode
-    // starts the next): storage is allocated once per solve.
-    let mut spare = System::default();
+    let Workspace { eig: ws, sys: slot } = wsp;
     while level <= s.max_level {
         let x = mesh::refine(base, level);
-        let mut sys = std::mem::take(&mut spare);
-        assembly::assemble_into(&mut sys, m, &x, mf);
+        let (sys, ps) = slots(slot, cur);
+        assembly::assemble_into(sys, m, &x, mf);
         if sign < 0.0 {
             sys.g.scale(-1.0);
         }
-        let start = prev.as_ref().map(|(l, _, ps, v)| {
+        let start = prev.as_ref().map(|(l, _, v)| {
             let full = ps.expand(v);
             let fine: Vec<[f64; NFULL]> =
                 sys.x.iter().map(|&xq| ps.interpolate(&full, xq)).collect();
             (*l, sys.restrict(&fine))
         });
+        let sys: &System = sys;
         // Intermediate levels only feed the estimate; the reported level is
         // proven afterwards.
         let opt = eigen::Options {
@@ -308,16 +342,15 @@ fn direction(
             ..Default::default()
         };
         let out = eigen::lowest_positive_in(ws, &sys.k, &sys.g, start, &opt)
-            .map_err(|e| eigen_err(e, &sys))?;
+            .map_err(|e| eigen_err(e, sys))?;
         let (lambda, mode, round_off) = match out {
             Outcome::NoBuckling { inertia, .. } => {
                 no_buckling_levels += 1;
                 if no_buckling_levels >= 2 || level == s.max_level {
-                    return Ok(no_buckling(inertia, &sys, history));
+                    return Ok(no_buckling(inertia, sys, history));
                 }
-                if let Some((_, _, old, _)) = prev.take() {
-                    spare = old;
-                }
+                prev = None;
+                cur = 1 - cur;
                 level += 1;
                 continue;
             }
@@ -334,7 +367,7 @@ fn direction(
         history.push((sys.elements(), lambda));
         // Estimate against the previous level (none on the first: unknown).
         let (est, stuck) = match &prev {
-            Some((lp, prev_ro, _, _)) => {
+            Some((lp, prev_ro, _)) => {
                 let ro = round_off.max(*prev_ro).max(ROUND_OFF);
                 let diff = ((lp - lambda) / lambda).abs();
                 // Refining further cannot help once round-off dominates.
@@ -359,7 +392,7 @@ fn direction(
                     s.tolerance,
                     lambda,
                     mf,
-                    &sys,
+                    sys,
                     &mode,
                     inertia,
                     history,
@@ -367,10 +400,10 @@ fn direction(
             }
             // The counts do not bracket it: search this mesh properly.
             match eigen::lowest_positive_in(ws, &sys.k, &sys.g, Some((lambda, mode)), &popt)
-                .map_err(|e| eigen_err(e, &sys))?
+                .map_err(|e| eigen_err(e, sys))?
             {
                 Outcome::NoBuckling { inertia, .. } => {
-                    return Ok(no_buckling(inertia, &sys, history));
+                    return Ok(no_buckling(inertia, sys, history));
                 }
                 Outcome::Critical {
                     lambda: l2,
@@ -383,26 +416,24 @@ fn direction(
                     let same = (l2 - lambda).abs() <= (1e-6_f64).max(4.0 * r2) * lambda;
                     if same || last {
                         let est = match (&prev, same) {
-                            (Some((lp, pr, _, _)), true) => {
+                            (Some((lp, pr, _)), true) => {
                                 ((lp - l2) / l2).abs().max(r2.max(*pr)).max(ROUND_OFF)
                             }
                             _ => 1.0,
                         };
-                        return Ok(finish(est, s.tolerance, l2, mf, &sys, &m2, i2, history));
+                        return Ok(finish(est, s.tolerance, l2, mf, sys, &m2, i2, history));
                     }
                     // A lower factor than the estimate was built on: refine
                     // further from the proven mode.
-                    if let Some((_, _, old, _)) = prev.replace((l2, r2, sys, m2)) {
-                        spare = old;
-                    }
+                    prev = Some((l2, r2, m2));
+                    cur = 1 - cur;
                     level += 1;
                     continue;
                 }
             }
         }
-        if let Some((_, _, old, _)) = prev.replace((lambda, round_off, sys, mode)) {
-            spare = old;
-        }
+        prev = Some((lambda, round_off, mode));
+        cur = 1 - cur;
         level += 1;
     }
     Err(SolveError::Eigen(

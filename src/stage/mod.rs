@@ -15,7 +15,7 @@ use crate::solve::Settings;
 use crate::sweep::cache::{self, Cache, point_key};
 use crate::sweep::run::{self, Shard, Summary};
 use crate::sweep::spec::{Spec, parse_spec};
-use crate::sweep::{Family, Point, Row, solve_point};
+use crate::sweep::{Family, Point, Row, solve_point_in};
 use anyhow::{Context, Result};
 use rayon::prelude::*;
 use std::io::Write;
@@ -260,11 +260,11 @@ pub fn solve_points(
     let solved: Vec<(Row, Option<[u8; 32]>)> = pool.install(|| {
         points
             .into_par_iter()
-            .map(|p| {
+            .map_init(crate::solve::Workspace::new, |ws, p| {
                 let k = point_key(&p, settings);
                 match shared.get(&k) {
                     Some(e) => (e.row(p), None),
-                    None => (solve_point(p, settings), Some(k)),
+                    None => (solve_point_in(ws, p, settings), Some(k)),
                 }
             })
             .collect()

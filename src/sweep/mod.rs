@@ -424,8 +424,14 @@ impl Family {
 
 /// Solve one point.
 pub fn solve_point(p: Point, s: &Settings) -> Row {
+    solve_point_in(&mut solve::Workspace::new(), p, s)
+}
+
+/// [`solve_point`] with a worker's reusable workspace (storage only: the
+/// row does not depend on what the workspace held).
+pub fn solve_point_in(ws: &mut solve::Workspace, p: Point, s: &Settings) -> Row {
     let mu0 = PI * (1.0 + p.kappa * p.kappa).sqrt();
-    match solve::solve(&p.member, s) {
+    match solve::solve_in(ws, &p.member, s) {
         Ok(sol) => {
             let d = sol.forward;
             // Only a converged case carries numbers (issue contract: failed

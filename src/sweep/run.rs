@@ -4,7 +4,8 @@
 
 use super::cache::{Cache, Entry, point_key};
 use super::spec::Spec;
-use super::{Cell, Row, header, preamble, print_tables, solve_point, write_row};
+use super::{Cell, Row, header, preamble, print_tables, solve_point, solve_point_in, write_row};
+use crate::solve;
 use crate::solve::Settings;
 use rayon::prelude::*;
 use std::io::Write;
@@ -246,12 +247,12 @@ pub fn run(
                     let solved: Vec<(Row, Option<[u8; 32]>)> = pool.install(|| {
                         (start..end)
                             .into_par_iter()
-                            .map(|i| {
+                            .map_init(solve::Workspace::new, |ws, i| {
                                 let p = f.point(i);
                                 let k = point_key(&p, settings);
                                 let out = match shared.get(&k) {
                                     Some(e) => (e.row(p), None),
-                                    None => (solve_point(p, settings), Some(k)),
+                                    None => (solve_point_in(ws, p, settings), Some(k)),
                                 };
                                 progress(1);
                                 out
