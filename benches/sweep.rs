@@ -109,8 +109,11 @@ fn main() {
     let stride = (f.size() / 20_000).max(1);
     let sample: Vec<usize> = (0..f.size()).step_by(stride).collect();
     let t = Instant::now();
+    // one workspace, as each sweep worker keeps one
+    let mut ws = ltb_atlas::solve::Workspace::new();
     for &i in &sample {
-        std::hint::black_box(ltb_atlas::sweep::solve_point(
+        std::hint::black_box(ltb_atlas::sweep::solve_point_in(
+            &mut ws,
             f.point(i),
             &Settings::default(),
         ));
