@@ -244,10 +244,11 @@ fn tridiag_max(alpha: &[f64], beta: &[f64], floor: f64) -> (f64, Vec<f64>, f64) 
     };
     let span = (hi - lo).max(f64::MIN_POSITIVE);
     let (mut a, mut b) = (lo.max(floor) - 1e-12 * span, hi + 1e-12 * span);
-    // Multisection to 1e-9 of the span (13 rounds of five parts): θ only
-    // judges the Lanczos residual and starts an inverse iteration whose
-    // result the inertia counts check. Invariant: an eigenvalue ≥ a, none ≥ b.
-    while b - a > 1e-9 * span {
+    // Multisection to 1e-7 of the span (11 rounds of five parts): θ only
+    // judges the Lanczos residual (to 1 %) and starts an inverse iteration
+    // whose result the inertia counts check. Invariant: an eigenvalue ≥ a,
+    // none ≥ b.
+    while b - a > 1e-7 * span {
         let h = (b - a) / 5.0;
         let x = [a + h, a + 2.0 * h, a + 3.0 * h, a + 4.0 * h];
         if !(x[0] > a && x[3] < b) {
@@ -266,7 +267,7 @@ fn tridiag_max(alpha: &[f64], beta: &[f64], floor: f64) -> (f64, Vec<f64>, f64) 
     }
     let theta = b;
     // Eigenvector: inverse iteration with T − (θ + η)·I, negative definite.
-    let eta = 1e-9 * span.max(theta.abs());
+    let eta = 1e-7 * span.max(theta.abs());
     let mut s = vec![1.0; m];
     let mut cp = vec![0.0; m];
     let mut dp = vec![0.0; m];
@@ -349,9 +350,11 @@ fn lanczos(
         }
         let b = dot(r, kr).max(0.0).sqrt();
         // Stop once the largest Ritz value's residual is 1 % of it: enough
-        // for a shift; the inverse iteration does the rest.
+        // for a shift; the inverse iteration does the rest. Checked from the
+        // fifth step on (measured: the check passes at the fourth step in
+        // 2 % of the benchmark cases, at the fifth or later in the rest).
         let done = j + 1 == m || b <= 1e-12 * alpha.iter().fold(0.0_f64, |x, y| x.max(y.abs()));
-        if done || j >= 3 {
+        if done || j >= 4 {
             let (theta, s, lower) = tridiag_max(alpha, beta, floor);
             floor = lower;
             let resid = (b * s[j]).abs();
