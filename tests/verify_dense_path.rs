@@ -211,3 +211,29 @@ fn band_inertia_counts_equal_dense_counts() {
         }
     }
 }
+
+#[test]
+fn prolongation_to_the_next_level_equals_interpolation_then_restriction() {
+    // The solver starts each level from the coarser level's mode via `System::prolong` (a forward
+    // walk over the coarse elements); it must equal Hermite interpolation at every fine node
+    // followed by the per-node least-squares restriction, bit for bit (same formulas; no source
+    // needed beyond the definitions). Cases with restraints at heights and springs exercise the
+    // general (non-selection) node maps.
+    for (label, m) in cases() {
+        let (coarse, fine) = (system(&m, 1), system(&m, 2));
+        let red: Vec<f64> = (0..coarse.n())
+            .map(|i| (i as f64 * 0.71 + 0.2).sin())
+            .collect();
+        let full = coarse.expand(&red);
+        let interp: Vec<[f64; assembly::NFULL]> = fine
+            .x
+            .iter()
+            .map(|&xq| coarse.interpolate(&full, xq))
+            .collect();
+        assert_eq!(
+            fine.prolong(&coarse, &red),
+            fine.restrict(&interp),
+            "{label}"
+        );
+    }
+}

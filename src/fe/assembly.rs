@@ -542,44 +542,24 @@ impl System {
     pub fn restrict(&self, full: &[[f64; NFULL]]) -> Vec<f64> {
         let mut out = vec![0.0; self.n()];
         for (d, f) in self.dofs.iter().zip(full) {
-            if let Some(sel) = d.sel {
-                for (fi, c) in sel.iter().enumerate() {
-                    if let Some(c) = c {
-                        out[d.offset + *c as usize] = f[fi];
-                    }
-                }
-                continue;
+            restrict_node(d, f, &mut out);
+        }
+        out
+    }
+    /// A mode on the coarser nested mesh `coarse`, interpolated (Hermite) at
+    /// this mesh's nodes and restricted to its reduced DOFs: the start of
+    /// the next level's iteration. Equal to `restrict` of `interpolate` at
+    /// every node, with the coarse element found by a forward walk.
+    pub fn prolong(&self, coarse: &System, red: &[f64]) -> Vec<f64> {
+        let full = coarse.expand(red);
+        let mut out = vec![0.0; self.n()];
+        let last = coarse.x.len() - 2;
+        let mut e = 0;
+        for (&xq, d) in self.x.iter().zip(&self.dofs) {
+            while e < last && coarse.x[e + 1] <= xq {
+                e += 1;
             }
-            // Normal equations (TᵀT)·r = Tᵀ·f, at most 5×5, by Gauss–Jordan.
-            let r = d.r;
-            let mut a = [[0.0; NFULL + 1]; NFULL];
-            for i in 0..r {
-                for j in 0..r {
-                    a[i][j] = (0..NFULL).map(|k| d.t[k][i] * d.t[k][j]).sum();
-                }
-                a[i][r] = (0..NFULL).map(|k| d.t[k][i] * f[k]).sum();
-            }
-            for c in 0..r {
-                let p = a[c][c];
-                if p.abs() < 1e-300 {
-                    continue;
-                }
-                for i in 0..r {
-                    if i != c {
-                        let q = a[i][c] / p;
-                        for j in c..=r {
-                            a[i][j] -= q * a[c][j];
-                        }
-                    }
-                }
-            }
-            for i in 0..r {
-                out[d.offset + i] = if a[i][i] != 0.0 {
-                    a[i][r] / a[i][i]
-                } else {
-                    0.0
-                };
-            }
+            restrict_node(d, &coarse.interpolate_on(&full, e, xq), &mut out);
         }
         out
     }
@@ -592,6 +572,10 @@ impl System {
         if e + 1 >= self.x.len() {
             e = self.x.len() - 2;
         }
+        self.interpolate_on(full, e, xq)
+    }
+    /// [`System::interpolate`] on element `e`.
+    fn interpolate_on(&self, full: &[[f64; NFULL]], e: usize, xq: f64) -> [f64; NFULL] {
         let h = self.x[e + 1] - self.x[e];
         let xi = ((xq - self.x[e]) / h).clamp(0.0, 1.0);
         let (n, d, _) = element::hermite(xi, h);
@@ -601,6 +585,49 @@ impl System {
         let p = n[0] * a[2] + n[1] * a[4] + n[2] * b[2] + n[3] * b[3];
         let dp = d[0] * a[2] + d[1] * a[4] + d[2] * b[2] + d[3] * b[3];
         [v, dv, p, dp, dp]
+    }
+}
+
+/// Least-squares reduced values of one node from its full values, written
+/// into `out` at the node's offset.
+fn restrict_node(d: &NodeDofs, f: &[f64; NFULL], out: &mut [f64]) {
+    if let Some(sel) = d.sel {
+        for (fi, c) in sel.iter().enumerate() {
+            if let Some(c) = c {
+                out[d.offset + *c as usize] = f[fi];
+            }
+        }
+        return;
+    }
+    // Normal equations (TᵀT)·r = Tᵀ·f, at most 5×5, by Gauss–Jordan.
+    let r = d.r;
+    let mut a = [[0.0; NFULL + 1]; NFULL];
+    for i in 0..r {
+        for j in 0..r {
+            a[i][j] = (0..NFULL).map(|k| d.t[k][i] * d.t[k][j]).sum();
+        }
+        a[i][r] = (0..NFULL).map(|k| d.t[k][i] * f[k]).sum();
+    }
+    for c in 0..r {
+        let p = a[c][c];
+        if p.abs() < 1e-300 {
+            continue;
+        }
+        for i in 0..r {
+            if i != c {
+                let q = a[i][c] / p;
+                for j in c..=r {
+                    a[i][j] -= q * a[c][j];
+                }
+            }
+        }
+    }
+    for i in 0..r {
+        out[d.offset + i] = if a[i][i] != 0.0 {
+            a[i][r] / a[i][i]
+        } else {
+            0.0
+        };
     }
 }
 

@@ -21,7 +21,7 @@
 //! inertia count of zero at that factor.
 
 use crate::eigen::{self, Inertia, Outcome};
-use crate::fe::assembly::{self, NFULL, System};
+use crate::fe::assembly::{self, System};
 use crate::fe::inplane::{self, MomentField};
 use crate::fe::mesh::{self, MeshControls};
 use crate::model::{Load, Member, ModelError, Support};
@@ -326,12 +326,7 @@ fn direction(
         if sign < 0.0 {
             sys.g.scale(-1.0);
         }
-        let start = prev.as_ref().map(|(l, _, v)| {
-            let full = ps.expand(v);
-            let fine: Vec<[f64; NFULL]> =
-                sys.x.iter().map(|&xq| ps.interpolate(&full, xq)).collect();
-            (*l, sys.restrict(&fine))
-        });
+        let start = prev.as_ref().map(|(l, _, v)| (*l, sys.prolong(ps, v)));
         let sys: &System = sys;
         // Intermediate levels only feed the estimate; the reported level is
         // proven afterwards.
