@@ -407,7 +407,7 @@ impl BandMatrix {
         let head = n.min(B);
         // Forward: x_i −= Σ L_ij·x_j. The terms with x_{i−B} … x_{i−2} are
         // summed in two independent partial sums before x_{i−1} is known,
-        // so the chain from row to row is one FMA.
+        // so the chain from row to row is one multiply and one subtraction.
         for i in 0..head {
             let row = &a[i * w..(i + 1) * w];
             let mut s = x[i];

@@ -259,8 +259,9 @@ fn warping_restrained(m: &Member) -> bool {
 /// Reusable storage of a solve: the eigen-solver's workspace and two
 /// assembled systems that alternate over the mesh levels. A caller that
 /// solves many cases on one thread (a sweep worker, a benchmark) keeps one
-/// and passes it to [`solve_in`], so that a solve allocates nothing but its
-/// results. Only storage is reused: every entry is written before it is
+/// and passes it to [`solve_in`], so that the band matrices, the factor and
+/// the work vectors are allocated once per thread instead of per level and
+/// per case. Only storage is reused: every entry is written before it is
 /// read, so results do not depend on what the workspace held (tested).
 #[derive(Debug, Clone, Default)]
 pub struct Workspace {
