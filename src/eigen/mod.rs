@@ -78,6 +78,13 @@ pub enum EigenError {
     /// The iteration did not settle.
     #[error("the eigenvalue iteration did not converge")]
     NotConverged,
+    /// K + s·Kg had a vanishing pivot at every shift tried near `shift`, so
+    /// no inertia count could be taken there.
+    #[error("no inertia count could be taken near the load factor {shift:e}: every shift tried gave a vanishing pivot")]
+    SingularShift {
+        /// The shift asked for.
+        shift: f64,
+    },
 }
 
 /// Options of the search.
@@ -166,20 +173,32 @@ impl Workspace {
         self.t2.resize(k.n(), 0.0);
     }
     /// Factor K + s·G; retry at a slightly moved shift if a pivot vanishes.
-    fn factor_at(&mut self, k: &BandMatrix, g: &BandMatrix, s: f64) -> (f64, usize) {
+    /// Returns the shift used and its count of negative pivots; never a
+    /// count from a failed factorisation.
+    fn factor_at(
+        &mut self,
+        k: &BandMatrix,
+        g: &BandMatrix,
+        s: f64,
+    ) -> Result<(f64, usize), EigenError> {
+        let asked = s;
         let mut s = s;
         for _ in 0..8 {
             self.c.set_combination(k, s, g);
             match self.c.factorize(1e-15) {
-                Ok(neg) => return (s, neg),
+                Ok(neg) => return Ok((s, neg)),
                 Err(BandError::ZeroPivot { .. }) => s *= 1.0 + 1e-9,
             }
         }
-        // Eight exact zero pivots in a row cannot happen for distinct
-        // shifts; fall back to a larger move.
+        // Eight vanishing pivots in a row cannot happen for distinct shifts
+        // of a sound system; one larger move, then give up rather than
+        // report a count that was not taken.
         s *= 1.0 + 1e-6;
         self.c.set_combination(k, s, g);
-        (s, self.c.factorize(0.0).unwrap_or(0))
+        match self.c.factorize(0.0) {
+            Ok(neg) => Ok((s, neg)),
+            Err(BandError::ZeroPivot { .. }) => Err(EigenError::SingularShift { shift: asked }),
+        }
     }
 }
 
@@ -488,7 +507,7 @@ pub fn lowest_positive_in(
         Some((l, x)) if l < opt.limit => (l, x),
         _ => {
             // No factor below the limit according to the estimate: prove it.
-            let (s, neg) = wk.factor_at(k, g, opt.limit);
+            let (s, neg) = wk.factor_at(k, g, opt.limit)?;
             inertia.push(Inertia {
                 shift: s,
                 negative: neg,
@@ -511,7 +530,7 @@ pub fn lowest_positive_in(
     };
     for _attempt in 0..4 {
         // Shift just below the estimate so the count there is informative.
-        let (s, neg) = wk.factor_at(k, g, sigma);
+        let (s, neg) = wk.factor_at(k, g, sigma)?;
         // The count at the iteration shift comes free: keep it.
         inertia.push(Inertia {
             shift: s,
@@ -532,7 +551,7 @@ pub fn lowest_positive_in(
         }
         let eps = opt.proof.max(ro);
         if lam >= opt.limit {
-            let (s, neg) = wk.factor_at(k, g, opt.limit);
+            let (s, neg) = wk.factor_at(k, g, opt.limit)?;
             inertia.push(Inertia {
                 shift: s,
                 negative: neg,
@@ -546,8 +565,8 @@ pub fn lowest_positive_in(
             sigma = slice_lowest(k, g, wk, s, &mut inertia)?;
             continue;
         }
-        let (s_lo, n_lo) = wk.factor_at(k, g, lam * (1.0 - eps));
-        let (s_hi, n_hi) = wk.factor_at(k, g, lam * (1.0 + eps));
+        let (s_lo, n_lo) = wk.factor_at(k, g, lam * (1.0 - eps))?;
+        let (s_hi, n_hi) = wk.factor_at(k, g, lam * (1.0 + eps))?;
         inertia.push(Inertia {
             shift: s_lo,
             negative: n_lo,
@@ -613,7 +632,7 @@ pub fn prove_in(
 ) -> Option<Vec<Inertia>> {
     wk.fit(k);
     let eps = opt.proof.max(round_off);
-    let (s_lo, n_lo) = wk.factor_at(k, g, lambda * (1.0 - eps));
+    let (s_lo, n_lo) = wk.factor_at(k, g, lambda * (1.0 - eps)).ok()?;
     if n_lo != 0 {
         return None;
     }
@@ -628,7 +647,7 @@ pub fn prove_in(
     {
         return Some(vec![lower, *up]);
     }
-    let (s_hi, n_hi) = wk.factor_at(k, g, lambda * (1.0 + eps));
+    let (s_hi, n_hi) = wk.factor_at(k, g, lambda * (1.0 + eps)).ok()?;
     if n_hi == 0 {
         return None;
     }
@@ -655,7 +674,7 @@ fn slice_lowest(
     // Walk down geometrically until the count is zero.
     for _ in 0..200 {
         lo *= 0.25;
-        let (s, neg) = wk.factor_at(k, g, lo);
+        let (s, neg) = wk.factor_at(k, g, lo)?;
         inertia.push(Inertia {
             shift: s,
             negative: neg,
@@ -671,7 +690,7 @@ fn slice_lowest(
             break;
         }
         let mid = (lo * hi).sqrt();
-        let (s, neg) = wk.factor_at(k, g, mid);
+        let (s, neg) = wk.factor_at(k, g, mid)?;
         if neg == 0 { lo = s } else { hi = s }
     }
     if hi.is_finite() && hi > 0.0 {
