@@ -8,8 +8,8 @@
 //!
 //! Goal: for each load pattern over κ ∈ {0.02, 0.05, 0.1, 0.3, 1, 3} × ζ ∈ {−1.2·κ, −0.5, 0, 0.5, κ,
 //! 1.5} (ζ only where the pattern has a load height), a default solve must return status Ok with
-//! error_estimate ≤ 1e-4 (the default tolerance) and true relative error ≤ error_estimate, the true
-//! error measured against a much finer reference solve of the same member.
+//! error_estimate ≤ 1e-4 (the default tolerance) and true relative error + reference estimate ≤
+//! error_estimate, the true error measured against a much finer reference solve of the same member.
 //!
 //! ```text
 //!   uniform moment, forks          o(==========)o          (no ζ)
@@ -19,6 +19,11 @@
 //!   cantilever, tip point          |============v          ζ grid, root warping fixed
 //!   cantilever, uniform load       |=vvvvvvvvvvv=          ζ grid, root warping fixed
 //!   cantilever, tip point          ¦============v          ζ grid, root warping free
+//!   fixed ends (in plane), uniform ]==vvvvvvvv==[          ζ grid, forks laterally
+//!   propped, uniform load          |==vvvvvvvv==o          ζ grid
+//!   cantilever, tip point, tip     |============v ->x      ζ grid, lateral restraint at ζr = κ
+//!     restrained on the top flange
+//!   monosymmetric span, uniform    o==vvvvvvvv==o          ζ grid, δ = 0.3
 //! ```
 //!
 //! Reference: each member solved with Settings{tolerance: 1e-9, max_level: 9} on three mesh
@@ -30,16 +35,20 @@
 //! also prints the conservative ratio (|true| + reference estimate)/estimate. A separate test
 //! asserts that the 1e-9 / level-9 request itself returns a result rather than an error.
 //!
-//! Tolerance: true error ≤ estimate exactly (no slack), estimate ≤ 1e-4.
+//! Tolerance: |true error| + reference estimate ≤ estimate (no slack: the reference's own error is
+//! counted against the solver), estimate ≤ 1e-4. References converged to 1e-8 everywhere are not
+//! reachable: at κ ≤ 0.05 with concentrated torques the round-off floor of the graded meshes is
+//! 1e-7 to 1e-6 (DEVELOPERS "The solver in one page", item 8); measured reference estimates have a
+//! median of 5e-8 and a worst of 1.6e-6, which the conservative check absorbs.
 
 mod common;
 
 use common::{
-    cantilever_tip, cantilever_uniform, par_map, report_failures, simple_span_central_point,
-    simple_span_uniform, uniform_moment, with_warping_free_root,
+    cantilever_tip, cantilever_uniform, fork_major_axis_fixed, par_map, report_failures,
+    simple_span_central_point, simple_span_uniform, udl, uniform_moment, with_warping_free_root,
 };
 use ltb_atlas::fe::mesh::MeshControls;
-use ltb_atlas::model::{Load, Member, Support};
+use ltb_atlas::model::{Fixity, Load, Member, Restraint, Support};
 use ltb_atlas::solve::{Direction, Settings, Status, solve};
 
 const KAPPAS: [f64; 6] = [0.02, 0.05, 0.1, 0.3, 1.0, 3.0];
@@ -57,9 +66,13 @@ enum Pattern {
     CantileverTip,
     CantileverUniform,
     CantileverTipWarpingFreeRoot,
+    FixedEndsUniform,
+    ProppedUniform,
+    CantileverTipRestrainedTopFlange,
+    MonosymmetricSpanUniform,
 }
 
-const PATTERNS: [Pattern; 7] = [
+const PATTERNS: [Pattern; 11] = [
     Pattern::UniformMoment,
     Pattern::EndMomentsPsiMinusHalf,
     Pattern::SimpleSpanUniform,
@@ -67,6 +80,10 @@ const PATTERNS: [Pattern; 7] = [
     Pattern::CantileverTip,
     Pattern::CantileverUniform,
     Pattern::CantileverTipWarpingFreeRoot,
+    Pattern::FixedEndsUniform,
+    Pattern::ProppedUniform,
+    Pattern::CantileverTipRestrainedTopFlange,
+    Pattern::MonosymmetricSpanUniform,
 ];
 
 fn member(p: Pattern, kappa: f64, zeta: f64) -> Member {
@@ -83,6 +100,30 @@ fn member(p: Pattern, kappa: f64, zeta: f64) -> Member {
         Pattern::CantileverUniform => cantilever_uniform(kappa, zeta),
         Pattern::CantileverTipWarpingFreeRoot => {
             with_warping_free_root(cantilever_tip(kappa, zeta))
+        }
+        // Statically indeterminate in plane: pre-buckling moments from the in-plane analysis.
+        Pattern::FixedEndsUniform => {
+            Member::new(kappa, fork_major_axis_fixed(), fork_major_axis_fixed())
+                .with_load(udl(zeta))
+        }
+        Pattern::ProppedUniform => {
+            Member::new(kappa, Support::BUILT_IN, Support::FORK).with_load(udl(zeta))
+        }
+        // An exact constraint at a height (v − a·φ = 0 eliminated), a concentrated torque on the
+        // twist at the tip, and the load at ζ.
+        Pattern::CantileverTipRestrainedTopFlange => {
+            cantilever_tip(kappa, zeta).with_restraint(Restraint {
+                at: 1.0,
+                zeta: kappa,
+                lateral: Fixity::Fixed,
+                twist: Fixity::Free,
+            })
+        }
+        // Monosymmetry (δ = 0.3, larger flange on top): Wagner term in Kg.
+        Pattern::MonosymmetricSpanUniform => {
+            let mut m = simple_span_uniform(kappa, zeta);
+            m.delta = 0.3;
+            m
         }
     }
 }
@@ -217,9 +258,11 @@ fn error_estimate_bounds_the_true_error() {
                 ),
             );
         }
-        // Solve module docs: the estimate bounds the true relative error.
-        if true_err.abs() > d.error_estimate {
-            failures.push(format!("{tag}: true error {true_err:.3e} > estimate {:.3e} (λ = {l}, reference {lr} on {rname})", d.error_estimate));
+        // Solve module docs: the estimate bounds the true relative error. The reference's own
+        // error (bounded by its estimate) is counted against the solver, so a reference that is
+        // off in the unfavourable direction cannot hide a violation.
+        if true_err.abs() + rd.error_estimate > d.error_estimate {
+            failures.push(format!("{tag}: true error {true_err:.3e} + reference estimate {:.1e} > estimate {:.3e} (λ = {l}, reference {lr} on {rname})", rd.error_estimate, d.error_estimate));
         }
         // Domain notes: conforming element → the discrete factor is an upper bound; the reference
         // is finer, so the default value must not lie below it beyond the reference's estimate.

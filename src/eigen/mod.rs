@@ -80,7 +80,9 @@ pub enum EigenError {
     NotConverged,
     /// K + s·Kg had a vanishing pivot at every shift tried near `shift`, so
     /// no inertia count could be taken there.
-    #[error("no inertia count could be taken near the load factor {shift:e}: every shift tried gave a vanishing pivot")]
+    #[error(
+        "no inertia count could be taken near the load factor {shift:e}: every shift tried gave a vanishing pivot"
+    )]
     SingularShift {
         /// The shift asked for.
         shift: f64,
