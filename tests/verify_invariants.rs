@@ -463,3 +463,45 @@ fn a_reused_workspace_gives_the_same_solution_bit_for_bit() {
         }
     }
 }
+
+#[test]
+fn soft_springs_are_not_mechanisms_and_too_soft_ones_are_named() {
+    // Issue contract ("a soft spring is not a mechanism"); Rayleigh's principle (a softer support
+    // cannot raise the lowest critical factor), common practice, no source; statics for the
+    // cantilever root (the moments of a cantilever do not depend on its root's in-plane springs).
+    let span = |f: Fixity| {
+        let mut s = Support::FORK;
+        s.twist = f;
+        s.lateral = f;
+        Member::new(0.5, s, s).with_load(common::udl(0.0))
+    };
+    let fixed = common::factor(&span(Fixity::Fixed), &Settings::default()).0;
+    for k in [1e-6, 1e-3, 1.0] {
+        let sol = solve(&span(Fixity::Spring(k)), &Settings::default())
+            .unwrap_or_else(|e| panic!("spring {k:e} refused: {e}"));
+        let lf = sol.forward.load_factor.expect("a factor");
+        assert!(
+            lf > 0.0 && lf < fixed,
+            "spring {k:e}: {lf} vs fixed {fixed}"
+        );
+    }
+    // In plane: a cantilever root on soft vertical and rotational springs carries the same moments.
+    let cantilever = |f: Fixity| {
+        let mut m = common::cantilever_tip(0.8, 0.3);
+        m.start.vertical = f;
+        m.start.in_plane_rotation = f;
+        m
+    };
+    let held = solve(&cantilever(Fixity::Fixed), &Settings::default()).unwrap();
+    let soft = solve(&cantilever(Fixity::Spring(1e-4)), &Settings::default()).unwrap();
+    let (a, b) = (held.forward.mu_cr.unwrap(), soft.forward.mu_cr.unwrap());
+    assert!(
+        (a - b).abs() <= 1e-6 * a,
+        "in-plane springs changed μcr: {a} vs {b}"
+    );
+    // Too soft to resolve: refused, naming the spring rather than a missing restraint.
+    let e = solve(&cantilever(Fixity::Spring(1e-14)), &Settings::default()).unwrap_err();
+    assert!(e.to_string().contains("`vertical` = 1e-14"), "{e}");
+    let e = solve(&span(Fixity::Spring(1e-16)), &Settings::default()).unwrap_err();
+    assert!(e.to_string().contains("`twist` = 1e-16"), "{e}");
+}

@@ -271,6 +271,34 @@ pub fn moments(m: &Member, keys: &[KeyPoint]) -> Result<MomentField, InPlaneMech
             .windows(2)
             .map(|w| w[1] - w[0])
             .fold(f64::INFINITY, f64::min);
+        // The other cause of a vanishing scaled pivot: a spring so soft
+        // against the member's bending stiffness that it holds nothing
+        // the analysis can resolve.
+        let xs = &x;
+        let springs: Vec<String> = sup
+            .iter()
+            .flat_map(|&(node, s)| {
+                [
+                    ("vertical", s.vertical),
+                    ("in_plane_rotation", s.in_plane_rotation),
+                ]
+                .into_iter()
+                .filter_map(move |(key, f)| match f {
+                    Fixity::Spring(k) if k > 0.0 => {
+                        Some(format!("`{key}` = {k:e} at x = {:.3} L", xs[node]))
+                    }
+                    _ => None,
+                })
+            })
+            .collect();
+        if gap >= 1e-3 && !springs.is_empty() {
+            return Err(InPlaneMechanism(format!(
+                "the in-plane spring(s) {} are too soft to resolve against the member's bending stiffness \
+                 (below about 1e-9 of it in units of E·Iy/L³ or E·Iy/L): the in-plane analysis cannot find the \
+                 moments; give a stiffer spring or \"fixed\"",
+                springs.join(", ")
+            )));
+        }
         return Err(InPlaneMechanism(format!(
             "two key points (supports, loads, restraints, segment ends) lie only {gap:.2e} L apart: the in-plane \
              analysis cannot resolve so short a span against the rest of the member; put them at the same \

@@ -535,5 +535,43 @@ fn mechanism_message(m: &Member, sys: &System, _row: usize) -> String {
         "it can move sideways without resistance: hold `lateral` at a support (preset \"fork\" or \"built-in\") \
          or add a lateral restraint"
     };
-    format!("the member is a mechanism out of plane: {what}")
+    // A spring below the mechanism pivot (about 1e-13 of the member's own
+    // stiffness, eigen::MECHANISM_PIVOT) holds nothing the analysis can
+    // resolve: name the springs, so that a very soft one is not mistaken
+    // for a missing restraint.
+    let mut springs = Vec::new();
+    let ends = [("start", m.start), ("end", m.end)];
+    let sup = ends.iter().map(|(n, s)| (n.to_string(), *s)).chain(
+        m.supports
+            .iter()
+            .map(|s| (format!("support at x = {:.3} L", s.at), s.support)),
+    );
+    for (name, s) in sup {
+        for (key, f) in [
+            ("lateral", s.lateral),
+            ("lateral_rotation", s.lateral_rotation),
+            ("twist", s.twist),
+            ("warping", s.warping),
+        ] {
+            if let crate::model::Fixity::Spring(k) = f {
+                springs.push(format!("{name} `{key}` = {k:e}"));
+            }
+        }
+    }
+    for r in &m.restraints {
+        for (key, f) in [("lateral", r.lateral), ("twist", r.twist)] {
+            if let crate::model::Fixity::Spring(k) = f {
+                springs.push(format!("restraint at x = {:.3} L `{key}` = {k:e}", r.at));
+            }
+        }
+    }
+    let soft = if springs.is_empty() {
+        String::new()
+    } else {
+        format!(
+            " (springs softer than about 1e-13 of the member's own stiffness count as absent; this member has {})",
+            springs.join(", ")
+        )
+    };
+    format!("the member is a mechanism out of plane: {what}{soft}")
 }
