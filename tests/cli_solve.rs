@@ -220,6 +220,14 @@ fn bad_input_is_located_and_writes_nothing() {
         "kappa = 1.0\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\ntwist = \"free\"\n[[load]]\nkind = \"end-moments\"\nstart = 1.0\nend = 1.0\n",
         &["load[0].end", "twist and rotate sideways"],
     );
+    // An unreadable file: named, without a made-up position.
+    let dir = tempfile::tempdir().unwrap();
+    let missing = dir.path().join("missing.toml").display().to_string();
+    let out = run(&["solve", &missing, "--json"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2), "{err}");
+    assert!(err.contains(&format!("{missing}: cannot read")), "{err}");
+    assert!(!err.contains(":0:0"), "{err}");
     // Zero length.
     assert_bad(
         "length = \"0 m\"\n[section]\nkind = \"rectangle\"\nh = 200.0\nb = 20.0\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"uniform\"\nvalue = 1.0\n",

@@ -86,7 +86,7 @@ pub struct LoadInfo {
 
 /// A case-file error: where and what.
 #[derive(Debug, Clone, thiserror::Error)]
-#[error("{file}:{line}:{column}: {}{message}", if key.is_empty() { String::new() } else { format!("{key}: ") })]
+#[error("{}", self.render())]
 pub struct CaseError {
     /// File path as given (or "<input>").
     pub file: String,
@@ -98,6 +98,26 @@ pub struct CaseError {
     pub key: String,
     /// What is wrong and how to fix it.
     pub message: String,
+}
+
+impl CaseError {
+    /// `file:line:column: key: message`; without a position (line 0, for
+    /// example an unreadable file) only `file: message`.
+    fn render(&self) -> String {
+        let key = if self.key.is_empty() {
+            String::new()
+        } else {
+            format!("{}: ", self.key)
+        };
+        if self.line == 0 {
+            format!("{}: {key}{}", self.file, self.message)
+        } else {
+            format!(
+                "{}:{}:{}: {key}{}",
+                self.file, self.line, self.column, self.message
+            )
+        }
+    }
 }
 
 /// Parse a case from text. `origin` names the file in errors.

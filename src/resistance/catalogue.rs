@@ -107,7 +107,7 @@ pub struct Entry {
 
 /// A catalogue error: file, line, column and what to do.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
-#[error("{file}:{line}:{column}: {message}")]
+#[error("{}", if *line == 0 { format!("{file}: {message}") } else { format!("{file}:{line}:{column}: {message}") })]
 pub struct CatalogueError {
     /// The file as given.
     pub file: String,
