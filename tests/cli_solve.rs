@@ -234,3 +234,28 @@ fn bad_input_is_located_and_writes_nothing() {
         &[":1:", "length"],
     );
 }
+
+#[test]
+fn a_warping_restraint_at_zero_kappa_is_reported_as_ignored() {
+    // Domain notes: at κ = 0 the section has no warping stiffness, so a warping restraint means
+    // nothing; the report must not state it as acting (issue contract: the solver ignores it with
+    // a note).
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(
+        dir.path(),
+        "k0.toml",
+        "kappa = 0.0\n[start]\npreset = \"built-in\"\n[end]\npreset = \"free\"\n[[load]]\nkind = \"point\"\nat = 1.0\n",
+    );
+    let out = run(&["solve", &case]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(
+        text.contains("cantilever root (start): warping fixed (ignored: no warping stiffness"),
+        "{text}"
+    );
+    assert!(text.contains("warping restraints are ignored"), "{text}");
+}

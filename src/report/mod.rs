@@ -457,7 +457,18 @@ pub fn write_text(
         )?;
     }
     if let Some((end, wf)) = root_warping(m) {
-        writeln!(w, "  cantilever root ({end}): warping {}", fixity_text(wf))?;
+        // Below KAPPA_NEGLIGIBLE the solver drops the warping stiffness, so
+        // a warping restraint acts on nothing (the solve's note says so too).
+        let ignored = if !wf.is_free() && m.kappa < crate::solve::KAPPA_NEGLIGIBLE {
+            " (ignored: no warping stiffness at this κ)"
+        } else {
+            ""
+        };
+        writeln!(
+            w,
+            "  cantilever root ({end}): warping {}{ignored}",
+            fixity_text(wf)
+        )?;
     }
     for l in &case.loads {
         let z = l
