@@ -259,3 +259,40 @@ fn a_warping_restraint_at_zero_kappa_is_reported_as_ignored() {
     );
     assert!(text.contains("warping restraints are ignored"), "{text}");
 }
+
+#[test]
+fn mode_csv_leaves_flange_columns_empty_for_a_monosymmetric_dimensionless_case() {
+    // Thin-walled theory (domain notes, monosymmetry): the flange heights of a monosymmetric
+    // section depend on the flanges' share of Iz, which κ and δ alone do not give, so the
+    // dimensionless mode file cannot place them at ζ = ±κ as for a doubly symmetric section.
+    let dir = tempfile::tempdir().unwrap();
+    let case = write(
+        dir.path(),
+        "mono.toml",
+        "kappa = 0.8\ndelta = 0.3\n[start]\npreset = \"fork\"\n[end]\npreset = \"fork\"\n[[load]]\nkind = \"uniform\"\n",
+    );
+    let mode = dir.path().join("mode.csv");
+    let out = run(&["solve", &case, "--mode", mode.to_str().unwrap()]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = std::fs::read_to_string(&mode).unwrap();
+    assert!(text.contains("monosymmetric"), "{text}");
+    let rows: Vec<&str> = text
+        .lines()
+        .skip_while(|l| l.starts_with('#'))
+        .skip(1)
+        .collect();
+    assert!(rows.len() > 10);
+    for r in rows {
+        let c: Vec<&str> = r.split(',').collect();
+        assert_eq!(c.len(), 5, "{r}");
+        assert!(
+            c[1].parse::<f64>().is_ok() && c[2].parse::<f64>().is_ok(),
+            "{r}"
+        );
+        assert!(c[3].is_empty() && c[4].is_empty(), "{r}");
+    }
+}

@@ -521,10 +521,21 @@ pub fn write_mode_csv(w: &mut dyn Write, case: &ResolvedCase, d: &Direction) -> 
         return Ok(());
     };
     let (xs, vs, top, bot, xunit, vunit) = match &case.kind {
-        CaseKind::Dimensionless => {
+        // Doubly symmetric: the flange centroids sit at ζ = ±κ. A monosymmetric
+        // dimensionless case (δ ≠ 0) does not fix them (they depend on the
+        // flanges' share of Iz, which κ and δ do not give): columns left empty.
+        CaseKind::Dimensionless if case.member.delta == 0.0 => {
             let a = case.member.kappa / PI;
             (1.0, 1.0, a, -a, "units of L", "units of L·√(GIt/EIz)")
         }
+        CaseKind::Dimensionless => (
+            1.0,
+            1.0,
+            f64::NAN,
+            f64::NAN,
+            "units of L",
+            "units of L·√(GIt/EIz)",
+        ),
         CaseKind::Physical(p) => {
             let lat = case.scales.lateral;
             (
@@ -549,6 +560,8 @@ pub fn write_mode_csv(w: &mut dyn Write, case: &ResolvedCase, d: &Direction) -> 
         w,
         "# flanges: top and bottom flange centroids{}",
         match case.kind {
+            CaseKind::Dimensionless if case.member.delta != 0.0 =>
+                " unknown for a monosymmetric dimensionless case (delta given, flange heights not): columns left empty",
             CaseKind::Dimensionless =>
                 " taken at zeta = +kappa and -kappa (doubly symmetric I-section)",
             _ if !(top.is_finite() && bot.is_finite()) =>
