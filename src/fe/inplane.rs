@@ -473,6 +473,83 @@ mod tests {
     }
 
     #[test]
+    fn two_equal_spans_uniform_load() {
+        // Continuous beam, two equal spans l = L/2 under a uniform load q: support moment
+        // −q·l²/8 at the middle support and the largest span moment 9·q·l²/128 at 3l/8 from each
+        // end support (Clapeyron's three-moment equation, a standard textbook result, e.g.
+        // Timoshenko & Young, *Theory of Structures*; values from memory, and they follow from
+        // statics plus the equal-slope condition at the middle support).
+        let mut m = member(
+            Support::FORK,
+            Support::FORK,
+            Load::Distributed {
+                from: 0.0,
+                to: 1.0,
+                fz_from: -1.0,
+                fz_to: -1.0,
+                zeta: 0.0,
+            },
+        );
+        m.supports.push(crate::model::PointSupport {
+            at: 0.5,
+            support: Support::FORK,
+        });
+        let f = moments(&m, &key_points(&m)).unwrap();
+        let l: f64 = 0.5;
+        assert!((f.at(0.5) + l * l / 8.0).abs() < 1e-12, "{}", f.at(0.5));
+        for x in [3.0 * l / 8.0, 1.0 - 3.0 * l / 8.0] {
+            assert!((f.at(x) - 9.0 * l * l / 128.0).abs() < 1e-12, "{}", f.at(x));
+        }
+    }
+
+    #[test]
+    fn triangular_and_partial_loads_on_a_simple_span() {
+        // Triangular load rising from 0 to q0 over a simple span: M(x) = q0·x·(L² − x²)/(6L), largest
+        // q0·L²/(9·√3) at x = L/√3 (statics; a standard beam-table case, e.g. Roark, 7th ed.,
+        // Table 8.1, values from memory and derived here).
+        let m = member(
+            Support::FORK,
+            Support::FORK,
+            Load::Distributed {
+                from: 0.0,
+                to: 1.0,
+                fz_from: 0.0,
+                fz_to: -1.0,
+                zeta: 0.0,
+            },
+        );
+        let f = moments(&m, &key_points(&m)).unwrap();
+        for x in [0.2, 0.5, 1.0 / 3f64.sqrt(), 0.9] {
+            assert!(
+                (f.at(x) - x * (1.0 - x * x) / 6.0).abs() < 1e-12,
+                "x {x}: {}",
+                f.at(x)
+            );
+        }
+        let (mx, at) = f.max_abs();
+        assert!(
+            (mx - 1.0 / (9.0 * 3f64.sqrt())).abs() < 1e-12 && (at - 1.0 / 3f64.sqrt()).abs() < 1e-6
+        );
+        // Uniform load q on the left half only: R_A = 3qL/8, M(L/2) = qL²/16, and
+        // M(x) = R_A·x − q·x²/2 on the loaded half (statics).
+        let m = member(
+            Support::FORK,
+            Support::FORK,
+            Load::Distributed {
+                from: 0.0,
+                to: 0.5,
+                fz_from: -1.0,
+                fz_to: -1.0,
+                zeta: 0.0,
+            },
+        );
+        let f = moments(&m, &key_points(&m)).unwrap();
+        assert!((f.at(0.5) - 1.0 / 16.0).abs() < 1e-12, "{}", f.at(0.5));
+        assert!((f.at(0.25) - (0.375 * 0.25 - 0.25 * 0.25 / 2.0)).abs() < 1e-12);
+        assert!((f.at(0.75) - 0.5 / 16.0).abs() < 1e-12, "{}", f.at(0.75));
+    }
+
+    #[test]
     fn mechanism_is_reported() {
         let m = member(
             Support::FREE,
