@@ -170,15 +170,15 @@ impl BandMatrix {
                 }
             }
             if i + B < n {
-                let base = i * w + B;
-                let mut k = 1;
-                while k < B {
-                    p0 += a[base + k * w - k] * x[i + k];
-                    p1 += a[base + (k + 1) * w - (k + 1)] * x[i + k + 1];
-                    k += 2;
-                }
-                if k == B {
-                    p0 += a[base + k * w - k] * x[i + k];
+                // entry (i + k, i) at i·w + B + k·B: one slice, fixed offsets
+                let col = &a[i * w + B..i * w + B + B * B + 1];
+                let xs = &x[i..i + B + 1];
+                for k in 1..B + 1 {
+                    if k % 2 == 1 {
+                        p0 += col[k * B] * xs[k];
+                    } else {
+                        p1 += col[k * B] * xs[k];
+                    }
                 }
             } else {
                 for r in i + 1..n {
@@ -446,19 +446,19 @@ impl BandMatrix {
             x[j] = s;
         }
         for j in (0..tail).rev() {
+            // entry (j + k, j) at j·w + B + k·B: one slice, fixed offsets
+            let col = &a[j * w + B..j * w + B + B * B + 1];
+            let xs = &x[j..=j + B];
             let (mut p0, mut p1) = (0.0, 0.0);
-            let base = j * w + B;
-            // k = B, B − 1, …, 2 in pairs; k = 1 last
-            let mut k = B;
-            while k >= 3 {
-                p0 += a[base + k * w - k] * x[j + k];
-                p1 += a[base + (k - 1) * w - (k - 1)] * x[j + k - 1];
-                k -= 2;
+            // k = B, B − 1, …, 2 in two partial sums; k = 1 last
+            for k in (2..B + 1).rev() {
+                if k % 2 == 0 {
+                    p0 += col[k * B] * xs[k];
+                } else {
+                    p1 += col[k * B] * xs[k];
+                }
             }
-            if k == 2 {
-                p0 += a[base + 2 * w - 2] * x[j + 2];
-            }
-            x[j] = (x[j] - (p0 + p1)) - a[base + w - 1] * x[j + 1];
+            x[j] = (x[j] - (p0 + p1)) - col[B] * xs[1];
         }
     }
 }
