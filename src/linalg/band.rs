@@ -334,12 +334,13 @@ impl BandMatrix {
         }
         for i in head..n {
             let (done, rest) = self.a.split_at_mut(i * w);
+            // the B rows above, as one slice read at fixed offsets
+            let prev = &done[(i - B) * w..];
             let row = &mut rest[..w];
             let scale = row.iter().fold(0.0_f64, |m, x| m.max(x.abs()));
             // column j = i − B + c
             for c in 0..B {
-                let j = i - B + c;
-                let rj = &done[j * w..(j + 1) * w];
+                let rj = &prev[c * w..(c + 1) * w];
                 let mut s = row[c];
                 // k = i − B + c2 for c2 < c; L[j][k] at rj[c2 + B − c]
                 for c2 in 0..c {
