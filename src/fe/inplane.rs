@@ -383,6 +383,17 @@ mod tests {
         Member::new(1.0, start, end).with_load(load)
     }
 
+    /// A distributed load at the shear centre from `from` to `to`, intensity `fz_from` to `fz_to`.
+    fn line_load(from: f64, to: f64, fz_from: f64, fz_to: f64) -> Load {
+        Load::Distributed {
+            from,
+            to,
+            fz_from,
+            fz_to,
+            zeta: 0.0,
+        }
+    }
+
     #[test]
     fn simply_supported_uniform_load() {
         // M = q·x·(1 − x)/2 for downward q (statics; Roark's Formulas for Stress and
@@ -390,13 +401,7 @@ mod tests {
         let m = member(
             Support::FORK,
             Support::FORK,
-            Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: 0.0,
-            },
+            line_load(0.0, 1.0, -1.0, -1.0),
         );
         let f = moments(&m, &key_points(&m)).unwrap();
         for x in [0.1, 0.3, 0.5, 0.77] {
@@ -412,17 +417,7 @@ mod tests {
         // case 2e with both ends fixed, from memory).
         let mut fixed = Support::FORK;
         fixed.in_plane_rotation = Fixity::Fixed;
-        let m = member(
-            fixed,
-            fixed,
-            Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: 0.0,
-            },
-        );
+        let m = member(fixed, fixed, line_load(0.0, 1.0, -1.0, -1.0));
         let f = moments(&m, &key_points(&m)).unwrap();
         assert!((f.at(0.0) + 1.0 / 12.0).abs() < 1e-12);
         assert!((f.at(0.5) - 1.0 / 24.0).abs() < 1e-12);
@@ -482,13 +477,7 @@ mod tests {
         let mut m = member(
             Support::FORK,
             Support::FORK,
-            Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: 0.0,
-            },
+            line_load(0.0, 1.0, -1.0, -1.0),
         );
         m.supports.push(crate::model::PointSupport {
             at: 0.5,
@@ -507,17 +496,7 @@ mod tests {
         // Triangular load rising from 0 to q0 over a simple span: M(x) = q0·x·(L² − x²)/(6L), largest
         // q0·L²/(9·√3) at x = L/√3 (statics; a standard beam-table case, e.g. Roark, 7th ed.,
         // Table 8.1, values from memory and derived here).
-        let m = member(
-            Support::FORK,
-            Support::FORK,
-            Load::Distributed {
-                from: 0.0,
-                to: 1.0,
-                fz_from: 0.0,
-                fz_to: -1.0,
-                zeta: 0.0,
-            },
-        );
+        let m = member(Support::FORK, Support::FORK, line_load(0.0, 1.0, 0.0, -1.0));
         let f = moments(&m, &key_points(&m)).unwrap();
         for x in [0.2, 0.5, 1.0 / 3f64.sqrt(), 0.9] {
             assert!(
@@ -535,13 +514,7 @@ mod tests {
         let m = member(
             Support::FORK,
             Support::FORK,
-            Load::Distributed {
-                from: 0.0,
-                to: 0.5,
-                fz_from: -1.0,
-                fz_to: -1.0,
-                zeta: 0.0,
-            },
+            line_load(0.0, 0.5, -1.0, -1.0),
         );
         let f = moments(&m, &key_points(&m)).unwrap();
         assert!((f.at(0.5) - 1.0 / 16.0).abs() < 1e-12, "{}", f.at(0.5));
