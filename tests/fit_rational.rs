@@ -4,38 +4,12 @@
 //! positive denominator, and a cantilever family solved by the engine with
 //! both bases.
 
-use ltb_atlas::fit::{self, Domain, Formula, Model, Sample, ValidationSettings, mu0, surface};
+mod common;
+
+use common::{fit_grid, linspace, logspace};
+use ltb_atlas::fit::{self, Domain, Formula, Model, ValidationSettings, mu0, surface};
 use ltb_atlas::stage::{self, CacheChoice, Options};
 use serde_json::Value;
-
-fn logspace(a: f64, b: f64, n: usize) -> Vec<f64> {
-    (0..n)
-        .map(|i| (a.ln() + (b.ln() - a.ln()) * i as f64 / (n - 1) as f64).exp())
-        .collect()
-}
-
-fn linspace(a: f64, b: f64, n: usize) -> Vec<f64> {
-    (0..n)
-        .map(|i| a + (b - a) * i as f64 / (n - 1) as f64)
-        .collect()
-}
-
-fn grid(f: fn(f64, f64) -> f64, ks: &[f64], zs: &[f64], band: bool, e: f64) -> Vec<Sample> {
-    let mut s = Vec::new();
-    for &k in ks {
-        for &z in zs {
-            let zeta = if band { z * k } else { z };
-            s.push(Sample {
-                kappa: k,
-                zeta,
-                delta: 0.0,
-                mu_cr: f(k, zeta),
-                error_estimate: e,
-            });
-        }
-    }
-    s
-}
 
 /// μcr/μ0 a ratio of a bilinear numerator and a linear denominator in
 /// (ln κ, ζ): inside the rational basis (an affine change of variables
@@ -52,7 +26,7 @@ fn recovers_a_rational_surface_to_1e_10_before_rounding() {
     // Computations, 4th ed., 2013, §5.5 for the least squares).
     let ks = logspace(0.1, 3.0, 7);
     let zs = linspace(-0.6, 0.6, 7);
-    let s = grid(in_rational_basis, &ks, &zs, false, 0.0);
+    let s = fit_grid(in_rational_basis, &ks, &zs, false, 0.0);
     let d = Domain::rectangle([0.1, 3.0], [-0.6, 0.6]);
     let o = surface::SurfaceOptions {
         target: 1e-12,
@@ -111,7 +85,7 @@ fn rational_bound_is_at_least_the_true_maximum_error_by_dense_sampling() {
     let ks = logspace(0.1, 2.0, 8);
     let ts = linspace(-1.0, 1.0, 7);
     let e = 1e-4;
-    let s = grid(curved, &ks, &ts, true, e);
+    let s = fit_grid(curved, &ks, &ts, true, e);
     let d = Domain::band([0.1, 2.0], [-1.0, 1.0]);
     for max_degree in [2, 3] {
         let o = surface::SurfaceOptions {

@@ -5,6 +5,9 @@
 //! for an underfit surface, and the conservative factor holding on a fresh
 //! validation grid.
 
+mod common;
+
+use common::{fit_grid, linspace, logspace};
 use ltb_atlas::fit::{
     self, Check, Domain, Formula, Model, Sample, ValidationSettings, mu0, surface,
 };
@@ -13,35 +16,6 @@ type Eng<'a> = Box<dyn FnMut(&[(f64, f64)]) -> Result<Vec<Option<(f64, f64)>>, (
 
 fn engine(f: fn(f64, f64) -> f64, e: f64) -> Eng<'static> {
     Box::new(move |pts: &[(f64, f64)]| Ok(pts.iter().map(|&(k, z)| Some((f(k, z), e))).collect()))
-}
-
-fn grid(f: fn(f64, f64) -> f64, ks: &[f64], zs: &[f64], band: bool, e: f64) -> Vec<Sample> {
-    let mut s = Vec::new();
-    for &k in ks {
-        for &z in zs {
-            let zeta = if band { z * k } else { z };
-            s.push(Sample {
-                kappa: k,
-                zeta,
-                delta: 0.0,
-                mu_cr: f(k, zeta),
-                error_estimate: e,
-            });
-        }
-    }
-    s
-}
-
-fn logspace(a: f64, b: f64, n: usize) -> Vec<f64> {
-    (0..n)
-        .map(|i| (a.ln() + (b.ln() - a.ln()) * i as f64 / (n - 1) as f64).exp())
-        .collect()
-}
-
-fn linspace(a: f64, b: f64, n: usize) -> Vec<f64> {
-    (0..n)
-        .map(|i| a + (b - a) * i as f64 / (n - 1) as f64)
-        .collect()
 }
 
 /// A surface inside the basis: μcr/μ0 a polynomial of degree 2 in ln κ and
@@ -57,7 +31,7 @@ fn recovers_a_surface_inside_the_basis_to_1e_10_before_rounding() {
     // (Golub & Van Loan, Matrix Computations, 4th ed., 2013, §5.5).
     let ks = logspace(0.1, 3.0, 7);
     let zs = linspace(-0.6, 0.6, 7);
-    let s = grid(in_basis, &ks, &zs, false, 0.0);
+    let s = fit_grid(in_basis, &ks, &zs, false, 0.0);
     let d = Domain::rectangle([0.1, 3.0], [-0.6, 0.6]);
     let o = surface::SurfaceOptions {
         target: 1e-12,
@@ -136,7 +110,7 @@ fn reported_bound_is_at_least_the_true_maximum_error_by_dense_sampling() {
     let ks = logspace(0.1, 2.0, 8);
     let ts = linspace(-1.0, 1.0, 7);
     let e = 1e-4;
-    let s = grid(curved, &ks, &ts, true, e);
+    let s = fit_grid(curved, &ks, &ts, true, e);
     let d = Domain::band([0.1, 2.0], [-1.0, 1.0]);
     for max_degree in [2, 3, 6] {
         let o = surface::SurfaceOptions {
@@ -156,7 +130,7 @@ fn an_underfit_surface_reports_a_large_error() {
     // about ±30 % (common practice, no source: the bound must show it).
     let ks = logspace(0.1, 2.0, 8);
     let ts = linspace(-1.0, 1.0, 7);
-    let s = grid(curved, &ks, &ts, true, 1e-4);
+    let s = fit_grid(curved, &ks, &ts, true, 1e-4);
     let d = Domain::band([0.1, 2.0], [-1.0, 1.0]);
     let o = surface::SurfaceOptions {
         max_degree: 1,
@@ -187,7 +161,7 @@ fn conservative_factor_holds_on_a_fresh_validation_grid() {
     let ks = logspace(0.1, 2.0, 8);
     let ts = linspace(-1.0, 1.0, 7);
     let e = 1e-4;
-    let s = grid(curved, &ks, &ts, true, e);
+    let s = fit_grid(curved, &ks, &ts, true, e);
     let d = Domain::band([0.1, 2.0], [-1.0, 1.0]);
     let fit = surface::fit(
         &s,
@@ -238,7 +212,7 @@ fn printed_coefficients_are_what_the_formula_uses() {
     // parse of its text (issue contract).
     let ks = logspace(0.1, 3.0, 6);
     let zs = linspace(-0.6, 0.6, 5);
-    let s = grid(in_basis, &ks, &zs, false, 0.0);
+    let s = fit_grid(in_basis, &ks, &zs, false, 0.0);
     let d = Domain::rectangle([0.1, 3.0], [-0.6, 0.6]);
     let fit = surface::fit(&s, &d, Default::default()).unwrap();
     let m = fit.printed(3);
@@ -267,7 +241,7 @@ fn points_between_the_rows_keep_a_surface_from_claiming_the_target() {
     // and must report that error. Common practice, no source.
     let ks = logspace(0.2, 2.0, 6);
     let zs = [-1.0, 0.0, 1.0];
-    let s = grid(quartic_in_zeta, &ks, &zs, false, 0.0);
+    let s = fit_grid(quartic_in_zeta, &ks, &zs, false, 0.0);
     let dom = Domain::rectangle([0.2, 2.0], [-1.0, 1.0]);
     let o = surface::SurfaceOptions::default();
     let blind = surface::fit(&s, &dom, o).unwrap();
@@ -336,7 +310,7 @@ fn the_stage_path_bound_covers_peaks_on_the_domains_edges() {
     let e = 1e-4;
     let d = Domain::band([0.1, 2.0], [-1.0, 1.0]);
     for truth in [curved as fn(f64, f64) -> f64, edge_steep] {
-        let s = grid(truth, &ks, &ts, true, e);
+        let s = fit_grid(truth, &ks, &ts, true, e);
         let between: Vec<Sample> = fit::validation_points(&d, &s, 2)
             .into_iter()
             .map(|(kappa, zeta)| Sample {

@@ -217,26 +217,20 @@ impl SurfaceFit {
 
     /// The model with coefficients rounded to `digits` significant digits.
     pub fn printed(&self, digits: usize) -> SurfaceModel {
-        let terms = self
-            .powers
-            .iter()
-            .zip(&self.coefficients)
-            .map(|(&(i, j), &c)| Term {
-                i,
-                j,
-                coef: Coef::new(&format!("c{i}{j}"), c, digits),
-            })
-            .collect();
-        let denominator = self
-            .den_powers
-            .iter()
-            .zip(&self.den_coefficients)
-            .map(|(&(i, j), &c)| Term {
-                i,
-                j,
-                coef: Coef::new(&format!("q{i}{j}"), c, digits),
-            })
-            .collect();
+        // numerator terms named c_ij, denominator terms q_ij
+        let rounded = |powers: &[(usize, usize)], coefs: &[f64], name: char| -> Vec<Term> {
+            powers
+                .iter()
+                .zip(coefs)
+                .map(|(&(i, j), &c)| Term {
+                    i,
+                    j,
+                    coef: Coef::new(&format!("{name}{i}{j}"), c, digits),
+                })
+                .collect()
+        };
+        let terms = rounded(&self.powers, &self.coefficients, 'c');
+        let denominator = rounded(&self.den_powers, &self.den_coefficients, 'q');
         SurfaceModel {
             u: self.u.clone(),
             v: self.v.clone(),

@@ -191,3 +191,42 @@ pub fn report_failures(failures: &[String]) {
         failures.join("\n")
     );
 }
+
+/// `n` values from `a` to `b` evenly spaced in ln (both ends included).
+pub fn logspace(a: f64, b: f64, n: usize) -> Vec<f64> {
+    (0..n)
+        .map(|i| (a.ln() + (b.ln() - a.ln()) * i as f64 / (n - 1) as f64).exp())
+        .collect()
+}
+
+/// `n` values from `a` to `b` evenly spaced (both ends included).
+pub fn linspace(a: f64, b: f64, n: usize) -> Vec<f64> {
+    (0..n)
+        .map(|i| a + (b - a) * i as f64 / (n - 1) as f64)
+        .collect()
+}
+
+/// Fit samples of an analytic `f(κ, ζ)` on the grid κ ∈ `ks` × ζ ∈ `zs` (ζ = z·κ when `band`),
+/// each with error estimate `e` (δ = 0).
+pub fn fit_grid(
+    f: fn(f64, f64) -> f64,
+    ks: &[f64],
+    zs: &[f64],
+    band: bool,
+    e: f64,
+) -> Vec<ltb_atlas::fit::Sample> {
+    let mut s = Vec::new();
+    for &k in ks {
+        for &z in zs {
+            let zeta = if band { z * k } else { z };
+            s.push(ltb_atlas::fit::Sample {
+                kappa: k,
+                zeta,
+                delta: 0.0,
+                mu_cr: f(k, zeta),
+                error_estimate: e,
+            });
+        }
+    }
+    s
+}
